@@ -1,0 +1,182 @@
+import { z } from 'zod';
+import { atomSchema, flagCodeSchema, structureResultSchema } from './structure';
+import { snapSettingsSchema, targetPolicySchema } from './settings';
+
+/**
+ * JSON shapes of the REST API (see DEVELOPERS.md, "Routes"). The server parses requests and
+ * serialises responses with these; the browser types its fetchers with them. Dates are ISO
+ * strings. Lists are paginated on the server: `{ items, total, page, pageSize }`.
+ */
+
+export const roleSchema = z.enum(['owner', 'chemist', 'reviewer']);
+export type Role = z.infer<typeof roleSchema>;
+
+export const healthSchema = z.object({
+  status: z.enum(['ok', 'degraded']),
+  version: z.string(),
+  database: z.boolean(),
+  queue: z.boolean(),
+  worker: z.boolean(),
+});
+
+export const userSchema = z.object({
+  id: z.string(),
+  login: z.string(),
+  email: z.string(),
+  name: z.string(),
+});
+
+export const workspaceSchema = z.object({
+  id: z.string(),
+  slug: z.string(),
+  name: z.string(),
+  defaults: snapSettingsSchema,
+});
+
+export const meSchema = z.object({
+  user: userSchema,
+  memberships: z.array(z.object({ workspace: workspaceSchema, role: roleSchema })),
+});
+
+export const paginationQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(50),
+});
+
+export const page = <T extends z.ZodType>(item: T) =>
+  z.object({ items: z.array(item), total: z.number().int(), page: z.number().int(), pageSize: z.number().int() });
+
+export const batchStatusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
+export const structureStatusSchema = z.enum(['queued', 'running', 'done', 'error', 'cancelled']);
+export const reviewStateSchema = z.enum(['pending', 'accepted', 'flagged']);
+
+/** Counts of a batch's structures by outcome. `clean` = done with no flag. */
+export const batchCountsSchema = z.object({
+  total: z.number().int(),
+  done: z.number().int(),
+  clean: z.number().int(),
+  overBudget: z.number().int(),
+  knifeEdge: z.number().int(),
+  error: z.number().int(),
+  accepted: z.number().int(),
+  flagged: z.number().int(),
+});
+
+export const batchSummarySchema = z.object({
+  id: z.string(),
+  workspaceSlug: z.string(),
+  name: z.string(),
+  status: batchStatusSchema,
+  submitter: z.object({ id: z.string(), name: z.string(), email: z.string() }),
+  createdAt: z.string(),
+  finishedAt: z.string().nullable(),
+  counts: batchCountsSchema,
+  /** Perceived groups with how many structures have each, most common first. */
+  groups: z.array(z.object({ group: z.string(), count: z.number().int() })),
+  signedOffBy: z.object({ id: z.string(), name: z.string() }).nullable(),
+  signedOffAt: z.string().nullable(),
+});
+export type BatchSummary = z.infer<typeof batchSummarySchema>;
+
+export const batchDetailSchema = batchSummarySchema.extend({
+  settings: snapSettingsSchema,
+  files: z.array(z.object({ name: z.string(), sha256: z.string(), structures: z.number().int() })),
+});
+
+export const batchListQuerySchema = paginationQuerySchema.extend({
+  status: batchStatusSchema.optional(),
+  q: z.string().max(200).optional(),
+});
+
+/** One row of a batch's structure table (no coordinates). */
+export const structureRowSchema = z.object({
+  id: z.string(),
+  batchId: z.string(),
+  name: z.string(),
+  sourceFile: z.string(),
+  frameIndex: z.number().int(),
+  status: structureStatusSchema,
+  error: z.string().nullable(),
+  formula: z.string().nullable(),
+  atomCount: z.number().int(),
+  perceivedGroup: z.string().nullable(),
+  pointGroup: z.string().nullable(),
+  computationalSubgroup: z.string().nullable(),
+  symmetryRmsdBefore: z.number().nullable(),
+  symmetryRmsdAfter: z.number().nullable(),
+  displacementRmsd: z.number().nullable(),
+  maxDisplacement: z.number().nullable(),
+  csm: z.number().nullable(),
+  flags: z.array(flagCodeSchema),
+  review: reviewStateSchema,
+});
+export type StructureRow = z.infer<typeof structureRowSchema>;
+
+export const structureListQuerySchema = paginationQuerySchema.extend({
+  group: z.string().max(8).optional(),
+  flag: flagCodeSchema.optional(),
+  status: structureStatusSchema.optional(),
+  review: reviewStateSchema.optional(),
+  q: z.string().max(200).optional(),
+  sort: z
+    .enum(['name', 'formula', 'perceivedGroup', 'pointGroup', 'displacementRmsd', 'maxDisplacement', 'csm', 'symmetryRmsdBefore'])
+    .default('name'),
+  dir: z.enum(['asc', 'desc']).default('asc'),
+});
+
+export const reviewEventSchema = z.object({
+  id: z.string(),
+  structureId: z.string().nullable(),
+  decision: z.enum(['accepted', 'flagged', 'signed-off']),
+  comment: z.string(),
+  reviewer: z.object({ id: z.string(), name: z.string() }),
+  createdAt: z.string(),
+});
+
+export const structureDetailSchema = structureRowSchema.extend({
+  charge: z.number().int(),
+  multiplicity: z.number().int().nullable(),
+  inputSha256: z.string(),
+  inputAtoms: z.array(atomSchema),
+  settings: snapSettingsSchema,
+  result: structureResultSchema.nullable(),
+  reviews: z.array(reviewEventSchema),
+});
+export type StructureDetail = z.infer<typeof structureDetailSchema>;
+
+export const resnapRequestSchema = z.object({
+  structureIds: z.array(z.string()).min(1).max(10_000),
+  target: targetPolicySchema,
+});
+
+export const reviewRequestSchema = z.object({
+  structureIds: z.array(z.string()).min(1).max(10_000),
+  decision: z.enum(['accepted', 'flagged']),
+  comment: z.string().max(4000).default(''),
+});
+
+export const memberSchema = z.object({ user: userSchema, role: roleSchema, joinedAt: z.string() });
+export const invitationSchema = z.object({
+  id: z.string(),
+  email: z.string(),
+  role: roleSchema,
+  expiresAt: z.string(),
+  acceptedAt: z.string().nullable(),
+});
+export const apiTokenSchema = z.object({
+  id: z.string(),
+  label: z.string(),
+  createdAt: z.string(),
+  lastUsedAt: z.string().nullable(),
+  revokedAt: z.string().nullable(),
+});
+export const auditEntrySchema = z.object({
+  id: z.string(),
+  action: z.string(),
+  actor: z.object({ id: z.string(), name: z.string() }).nullable(),
+  detail: z.record(z.string(), z.unknown()),
+  createdAt: z.string(),
+});
+
+/** Body of an error response: `{ error: { code, message } }`. */
+export const apiErrorSchema = z.object({ error: z.object({ code: z.string(), message: z.string() }) });

@@ -1,0 +1,41 @@
+import { fileURLToPath } from 'node:url';
+import react from '@vitejs/plugin-react';
+import tailwindcss from '@tailwindcss/vite';
+import { defineConfig } from 'vitest/config';
+
+const here = (p: string) => fileURLToPath(new URL(p, import.meta.url));
+
+export default defineConfig({
+  plugins: [react(), tailwindcss()],
+  resolve: {
+    alias: {
+      '@shared': here('./shared'),
+      '@server': here('./server'),
+      '@': here('./src'),
+    },
+  },
+  build: { outDir: 'dist/web', emptyOutDir: true, sourcemap: true },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: { name: 'shared', include: ['tests/shared/**/*.test.ts'], environment: 'node' },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'server',
+          include: ['tests/server/**/*.test.ts', 'tests/worker/**/*.test.ts'],
+          environment: 'node',
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+        },
+      },
+      {
+        extends: true,
+        test: { name: 'web', include: ['tests/web/**/*.test.tsx'], environment: 'jsdom' },
+      },
+    ],
+  },
+});
