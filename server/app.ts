@@ -1,0 +1,33 @@
+import express, { type Express } from 'express';
+import type { DataSource } from 'typeorm';
+import type { Redis } from 'ioredis';
+import type { Config } from './config';
+import type { Logger } from './logger';
+import type { Mailer } from './mail/mailer';
+import { apiNotFound, errorHandler } from './middleware/error-handler';
+
+/** What the app needs from the outside; index.ts builds the real ones, tests build their own. */
+export interface AppDeps {
+  config: Config;
+  logger: Logger;
+  dataSource: DataSource;
+  /** Plain Redis commands (heartbeat, rate limits). BullMQ opens its own connections. */
+  redis: Redis;
+  mailer: Mailer;
+}
+
+/**
+ * Builds the Express app (no listen). Module routers are mounted here, in one place, so the
+ * route table is easy to audit.
+ */
+export function createApp(deps: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  // --- module routers (each module: server/modules/<name>/router.ts) ---
+
+  app.use('/api', apiNotFound);
+  app.use(errorHandler(deps.logger));
+  return app;
+}

@@ -1,0 +1,5 @@
+/**
+ * Every migration class in order of its timestamp. Generate with
+ * `npm run migration:generate -- server/db/migrations/<Name>` and add it here.
+ */
+export const migrations: Function[] = [];
