@@ -1,5 +1,9 @@
+import { ApiToken } from '../modules/tokens/entity';
+import { User } from '../modules/users/entity';
+import { Membership, Workspace } from '../modules/workspaces/entity';
+
 /**
  * Every TypeORM entity class, listed explicitly (no globs: tsx and bundlers both load this).
  * Add a new entity here and write its migration (see DEVELOPERS.md).
  */
-export const entities: Function[] = [];
+export const entities: Function[] = [User, Workspace, Membership, ApiToken];

@@ -1,5 +1,7 @@
+import { Identity1796161344465 } from './1796161344465-Identity';
+
 /**
  * Every migration class in order of its timestamp. Generate with
  * `npm run migration:generate -- server/db/migrations/<Name>` and add it here.
  */
-export const migrations: Function[] = [];
+export const migrations: Function[] = [Identity1796161344465];
