@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import type { RequestHandler } from 'express';
 import type { DataSource } from 'typeorm';
 import { IsNull } from 'typeorm';
+import type {} from 'express-session';
 import { unauthenticated } from '../errors';
 import { ApiToken } from '../modules/tokens/entity';
 
