@@ -12,28 +12,30 @@ const bool = z
 export const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
   HOST: z.string().default('127.0.0.1'),
-  PORT: z.coerce.number().int().min(0).max(65535).default(5173),
+  PORT: z.coerce.number().int().min(0).max(65535).default(4380),
   /** Public base URL of the app (OAuth callback, invitation links). Derived from HOST/PORT if unset. */
   PUBLIC_URL: z.string().url().optional(),
-  DATABASE_URL: z.string().default('postgres://postgres@127.0.0.1:55432/pointfold'),
-  REDIS_URL: z.string().default('redis://127.0.0.1:56379'),
+  DATABASE_URL: z.string().default('postgres://postgres@127.0.0.1:4332/pointfold'),
+  REDIS_URL: z.string().default('redis://127.0.0.1:4379'),
   /** Prefix for BullMQ keys, so several test runs can share one Redis. */
   QUEUE_PREFIX: z.string().default('pointfold'),
   SESSION_SECRET: z.string().min(16).default('pointfold-development-secret-change-me'),
   GITHUB_CLIENT_ID: z.string().default('pointfold-dev'),
   GITHUB_CLIENT_SECRET: z.string().default('pointfold-dev-secret'),
   /** Base URL of the OAuth provider; the local fake in development and tests. */
-  OAUTH_BASE_URL: z.string().default('http://127.0.0.1:5174'),
+  OAUTH_BASE_URL: z.string().default('http://127.0.0.1:4381'),
   /** Where the API fetches the user profile; GitHub's API host in production. */
   OAUTH_API_URL: z.string().optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
-  SMTP_PORT: z.coerce.number().int().default(5125),
+  SMTP_PORT: z.coerce.number().int().default(4325),
   SMTP_SECURE: bool,
   SMTP_USER: z.string().optional(),
   SMTP_PASS: z.string().optional(),
   MAIL_FROM: z.string().default('Pointfold <pointfold@localhost>'),
   /** Fake mailbox readable in the app (development and tests only). */
   DEV_MAILBOX: bool,
+  /** HTTP endpoint of the fake SMTP inbox (GET /messages), read by the dev mailbox page. */
+  DEV_MAILBOX_URL: z.string().default('http://127.0.0.1:4326'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(200 * 1024 * 1024),
