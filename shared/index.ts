@@ -5,3 +5,4 @@
 export * from './contracts/structure';
 export * from './contracts/settings';
 export * from './contracts/api';
+export * from './elements';
