@@ -1,0 +1,19 @@
+import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
+import { meSchema } from '@shared/contracts/api';
+import { apiFetch } from '@/lib/api-client';
+
+/** GET /api/me — the signed-in user and their workspaces with a role in each. 401 when signed out. */
+export function fetchMe(signal?: AbortSignal) {
+  return apiFetch('/api/me', { schema: meSchema, signal });
+}
+
+export const meQueryOptions = () =>
+  queryOptions({
+    queryKey: ['me'] as const,
+    queryFn: ({ signal }) => fetchMe(signal),
+    staleTime: 60_000,
+  });
+
+export function useMe() {
+  return useSuspenseQuery(meQueryOptions()).data;
+}
