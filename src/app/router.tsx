@@ -35,7 +35,7 @@ export const routes: RouteObject[] = [
             Component: WorkspaceLayout,
             children: [
               { index: true, lazy: () => import('@/features/batches/route') },
-              // Next commits: { path: 'new', lazy: () => import('@/features/new-batch/route') },
+              { path: 'new', lazy: () => import('@/features/new-batch/route') },
               // TODO(web B): uncomment when src/features/batch/route.tsx lands (exports loader + Component).
               // { path: 'batches/:batchId', lazy: () => import('@/features/batch/route') },
               // TODO(web B): uncomment when src/features/structure/route.tsx lands (exports loader + Component).

@@ -1,6 +1,7 @@
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import { meSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
+import { queryKeys } from '@/lib/query-keys';
 
 /** GET /api/me — the signed-in user and their workspaces with a role in each. 401 when signed out. */
 export function fetchMe(signal?: AbortSignal) {
@@ -9,7 +10,7 @@ export function fetchMe(signal?: AbortSignal) {
 
 export const meQueryOptions = () =>
   queryOptions({
-    queryKey: ['me'] as const,
+    queryKey: queryKeys.me(),
     queryFn: ({ signal }) => fetchMe(signal),
     staleTime: 60_000,
   });

@@ -2,6 +2,7 @@ import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
 import type { z } from 'zod';
 import { batchStatusSchema, batchSummarySchema, page } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
+import { queryKeys } from '@/lib/query-keys';
 
 export const batchPageSchema = page(batchSummarySchema);
 export type BatchPage = z.infer<typeof batchPageSchema>;
@@ -48,15 +49,11 @@ export function hasLiveBatches(data: BatchPage | undefined): boolean {
 
 export const batchesQueryOptions = (slug: string, filters: BatchFilters) =>
   queryOptions({
-    queryKey: ['workspaces', slug, 'batches', 'list', filters] as const,
+    queryKey: [...queryKeys.batches(slug), 'list', filters] as const,
     queryFn: ({ signal }) => fetchBatches(slug, filters, signal),
     // Poll only while something runs; a page of finished batches stays still.
     refetchInterval: (query) => (hasLiveBatches(query.state.data) ? LIVE_POLL_MS : false),
   });
-
-/** Prefix that covers every list of this workspace's batches (for invalidation after an upload). */
-export const batchesListPrefix = (slug: string) =>
-  batchesQueryOptions(slug, { page: 1, pageSize: BATCHES_PAGE_SIZE }).queryKey.slice(0, 3);
 
 export function useBatches(slug: string, filters: BatchFilters) {
   return useSuspenseQuery(batchesQueryOptions(slug, filters)).data;
