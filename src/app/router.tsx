@@ -36,8 +36,7 @@ export const routes: RouteObject[] = [
             children: [
               { index: true, lazy: () => import('@/features/batches/route') },
               { path: 'new', lazy: () => import('@/features/new-batch/route') },
-              // TODO(web B): uncomment when src/features/batch/route.tsx lands (exports loader + Component).
-              // { path: 'batches/:batchId', lazy: () => import('@/features/batch/route') },
+              { path: 'batches/:batchId', lazy: () => import('@/features/batch/route') },
               // TODO(web B): uncomment when src/features/structure/route.tsx lands (exports loader + Component).
               // { path: 'structures/:structureId', lazy: () => import('@/features/structure/route') },
               // Next commits: { path: 'settings', lazy: () => import('@/features/settings/route') },
