@@ -1,0 +1,220 @@
+import type { AtomJson } from '../contracts/structure';
+import { normalizeElement } from '../elements';
+import type { ParseFailure, ReadResult } from './types';
+
+/** Options shared by every reader. */
+export interface ReadOptions {
+  /**
+   * Largest number of atoms accepted in one structure (default {@link DEFAULT_MAX_ATOMS}).
+   * A larger frame is reported as a failure of that frame, without turning its lines into atoms.
+   */
+  maxAtoms?: number;
+}
+
+/** Default per-structure atom limit of the readers. */
+export const DEFAULT_MAX_ATOMS = 20_000;
+
+/** Largest accepted |coordinate| in Å; anything beyond is a unit or parsing mistake. */
+export const MAX_ABS_COORDINATE = 1e6;
+
+/** Thrown inside a reader to abandon the current frame; caught by the reader, never escapes. */
+export class FrameError extends Error {
+  constructor(
+    readonly line: number | null,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+/** A failed ReadResult. */
+export function failure(file: string, frame: number, line: number | null, message: string): ReadResult {
+  const error: ParseFailure = { file, frame, line, message };
+  return { ok: false, error };
+}
+
+/** The name given to a structure whose file carries none: `<file>#<1-based frame>`. */
+export function defaultName(file: string, frame: number): string {
+  return `${file}#${frame + 1}`;
+}
+
+/** Quote a fragment of input for a one-line message (clipped, control characters shown as ·). */
+export function quote(text: string, max = 40): string {
+  const t = text.trim().replace(/[\u0000-\u001f\u007f]/g, '·');
+  return `'${t.length > max ? `${t.slice(0, max)}…` : t}'`;
+}
+
+/**
+ * Decode file content to text. Bytes must be valid UTF-8 without NUL bytes (binary files, UTF-16
+ * and images fail here with "not a text file"). A UTF-8 byte-order mark is dropped.
+ */
+export function decodeText(content: string | Uint8Array): { ok: true; text: string } | { ok: false; message: string } {
+  let text: string;
+  if (typeof content === 'string') {
+    text = content;
+  } else {
+    if (content.indexOf(0) !== -1) return { ok: false, message: 'not a text file (it contains NUL bytes)' };
+    try {
+      text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(content);
+    } catch {
+      return { ok: false, message: 'not a text file (it is not valid UTF-8)' };
+    }
+  }
+  if (text.includes('\u0000')) return { ok: false, message: 'not a text file (it contains NUL bytes)' };
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+  return { ok: true, text };
+}
+
+const NON_SPACE = /\S/g;
+
+/**
+ * Reads a text line by line without splitting it up front (a 10⁶-line file costs nothing until
+ * read). Accepts LF, CRLF and lone CR line ends. Line numbers are 1-based.
+ */
+export class LineReader {
+  private pos = 0;
+  /** Number of the line most recently returned by {@link next} (0 before the first). */
+  lineNo = 0;
+
+  constructor(private readonly text: string) {}
+
+  /** The next line without its line end, or null at the end of the text. */
+  next(): string | null {
+    const { text } = this;
+    if (this.pos >= text.length) return null;
+    let end = text.indexOf('\n', this.pos);
+    let nextPos: number;
+    if (end === -1) {
+      end = text.length;
+      nextPos = end;
+    } else {
+      nextPos = end + 1;
+    }
+    let line = text.slice(this.pos, end);
+    if (line.endsWith('\r')) line = line.slice(0, -1);
+    // A lone CR (old Mac files) inside what LF splitting took as one line: split there.
+    const cr = line.indexOf('\r');
+    if (cr !== -1) {
+      line = line.slice(0, cr);
+      nextPos = this.pos + cr + 1;
+    }
+    this.pos = nextPos;
+    this.lineNo++;
+    return line;
+  }
+
+  /** The next line without consuming it. */
+  peek(): string | null {
+    const pos = this.pos;
+    const lineNo = this.lineNo;
+    const line = this.next();
+    this.pos = pos;
+    this.lineNo = lineNo;
+    return line;
+  }
+
+  /** Skip up to n lines; returns how many were skipped. */
+  skip(n: number): number {
+    let k = 0;
+    while (k < n && this.next() !== null) k++;
+    return k;
+  }
+
+  /** True when every remaining line is blank. */
+  restIsBlank(): boolean {
+    NON_SPACE.lastIndex = this.pos;
+    return !NON_SPACE.test(this.text);
+  }
+}
+
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
+
+/**
+ * Parse a decimal number strictly (no hex, no empty string → 0); Fortran `D` exponents accepted.
+ * Returns null when the token is not a number at all.
+ */
+export function parseNumber(token: string): number | null {
+  const t = token.trim();
+  if (NUMBER.test(t)) return Number(t.replace(/[dD]/, 'e'));
+  if (/^[+-]?(nan|inf|infinity)$/i.test(t)) return Number.NaN;
+  return null;
+}
+
+/** Parse an integer token strictly (`+1`, `-2`, `0`); null otherwise. */
+export function parseInteger(token: string): number | null {
+  const t = token.trim();
+  return /^[+-]?\d+$/.test(t) ? Number(t) : null;
+}
+
+/**
+ * Check a coordinate: finite and |x| ≤ {@link MAX_ABS_COORDINATE} Å.
+ * @throws FrameError naming the atom (1-based) and the offending text.
+ */
+export function checkCoordinate(value: number, raw: string, atom: number, line: number | null): number {
+  if (!Number.isFinite(value)) throw new FrameError(line, `atom ${atom}: coordinate ${quote(raw)} is not a finite number`);
+  if (Math.abs(value) > MAX_ABS_COORDINATE) {
+    throw new FrameError(line, `atom ${atom}: coordinate ${quote(raw)} is out of range (|x| > 1e6 Å)`);
+  }
+  return value;
+}
+
+/**
+ * An element symbol or atomic number as written in a file → canonical symbol.
+ * @throws FrameError "unknown element" (with a hint for the isotope labels D and T).
+ */
+export function elementOf(raw: string | number, atom: number, line: number | null): string {
+  const s = normalizeElement(raw);
+  if (s != null) return s;
+  const t = String(raw).trim();
+  const hint = /^[dt]$/i.test(t) ? ' (isotope labels are not supported; write H)' : '';
+  throw new FrameError(line, `atom ${atom}: unknown element ${quote(t, 12)}${hint}`);
+}
+
+/** Parse one atom from an element token and three coordinate tokens. @throws FrameError. */
+export function atomFrom(
+  elementToken: string | number,
+  xs: string,
+  ys: string,
+  zs: string,
+  atom: number,
+  line: number | null,
+): AtomJson {
+  const element = elementOf(elementToken, atom, line);
+  const c = [xs, ys, zs].map((raw) => {
+    const v = parseNumber(raw);
+    if (v == null) throw new FrameError(line, `atom ${atom}: coordinate ${quote(raw)} is not a number`);
+    return checkCoordinate(v, raw, atom, line);
+  });
+  return { element, x: c[0], y: c[1], z: c[2] };
+}
+
+/** Too-many-atoms message, shared so every format words it the same. */
+export function tooManyAtoms(count: number, max: number): string {
+  return `${count.toLocaleString('en-US')} atoms exceeds the limit of ${max.toLocaleString('en-US')} per structure`;
+}
+
+/** A charge value from a file: an integer (`-1`, `+2`, `0`, also `1.0`). @throws FrameError. */
+export function chargeFrom(raw: string | number, line: number | null): number {
+  const v = typeof raw === 'number' ? raw : parseNumber(raw);
+  if (v == null || !Number.isInteger(v) || Math.abs(v) > 1000) {
+    throw new FrameError(line, `charge ${quote(String(raw), 20)} is not an integer`);
+  }
+  return v;
+}
+
+/** A spin multiplicity from a file: an integer ≥ 1. @throws FrameError. */
+export function multiplicityFrom(raw: string | number, line: number | null): number {
+  const v = typeof raw === 'number' ? raw : parseNumber(raw);
+  if (v == null || !Number.isInteger(v) || v < 1 || v > 1000) {
+    throw new FrameError(line, `multiplicity ${quote(String(raw), 20)} is not an integer ≥ 1`);
+  }
+  return v;
+}
+
+/** Trim a title for use as a structure name; null when empty. */
+export function cleanName(raw: string | null | undefined): string | null {
+  if (raw == null) return null;
+  const t = raw.replace(/[\u0000-\u001f\u007f]/g, ' ').replace(/\s+/g, ' ').trim();
+  if (t === '') return null;
+  return t.length > 200 ? t.slice(0, 200) : t;
+}

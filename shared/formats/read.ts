@@ -1,0 +1,100 @@
+import { readCml } from './cml';
+import { decodeText, failure, type ReadOptions } from './common';
+import { readMolfile } from './molfile';
+import { readPdb } from './pdb';
+import { readQcschema } from './qcschema';
+import type { InputFormat, ReadResult } from './types';
+import { readXyz } from './xyz';
+
+const BY_EXTENSION: Record<string, InputFormat> = {
+  xyz: 'xyz',
+  extxyz: 'extxyz',
+  mol: 'mol',
+  mdl: 'mol',
+  sdf: 'sdf',
+  sd: 'sdf',
+  pdb: 'pdb',
+  ent: 'pdb',
+  cml: 'cml',
+  json: 'qcschema',
+  qcschema: 'qcschema',
+};
+
+function firstLines(content: string, n: number): string[] {
+  const lines: string[] = [];
+  let pos = 0;
+  while (lines.length < n && pos <= content.length) {
+    const end = content.indexOf('\n', pos);
+    lines.push(content.slice(pos, end === -1 ? content.length : end).replace(/\r$/, ''));
+    if (end === -1) break;
+    pos = end + 1;
+  }
+  return lines;
+}
+
+/** Guess the format from the first lines of the content. */
+function sniff(content: string): InputFormat | null {
+  const head = content.slice(0, 4096).replace(/^\uFEFF/, '');
+  const start = head.trimStart();
+  if (start.startsWith('{') || start.startsWith('[')) return 'qcschema';
+  if (start.startsWith('<')) return 'cml'; // the CML reader says so plainly if it is other XML
+  const lines = firstLines(head, 6);
+  if (lines.some((l) => /^(ATOM  |HETATM|HEADER|MODEL |CRYST1|COMPND|REMARK)/.test(l))) return 'pdb';
+  if (lines.length >= 4 && /^[\s\d]{6}.*V[23]000\s*$/.test(lines[3])) return /^\$\$\$\$/m.test(content) ? 'sdf' : 'mol';
+  const first = lines.findIndex((l) => l.trim() !== '');
+  if (first !== -1 && /^\s*\d+\s*$/.test(lines[first])) {
+    return /\b(Properties|Lattice)\s*=/i.test(lines[first + 1] ?? '') ? 'extxyz' : 'xyz';
+  }
+  return null;
+}
+
+/**
+ * The input format of a file: by its extension (`.xyz`, `.extxyz`, `.mol`, `.sdf`, `.pdb`, `.cml`,
+ * `.json`/`.qcschema`, case-insensitive), else by sniffing the content. A `.xyz` whose first
+ * comment line carries `Properties=` or `Lattice=` is reported as extended XYZ. Null when neither
+ * gives an answer.
+ */
+export function detectFormat(fileName: string, content: string): InputFormat | null {
+  const ext = /\.([A-Za-z0-9]+)$/.exec(fileName)?.[1]?.toLowerCase();
+  const byExt = ext != null ? BY_EXTENSION[ext] : undefined;
+  if (byExt === 'xyz') return sniff(content) === 'extxyz' ? 'extxyz' : 'xyz';
+  if (byExt != null) return byExt;
+  return sniff(content);
+}
+
+/**
+ * Read every structure of a file. Never throws: each frame is either a molecule or a located
+ * failure (file, 0-based frame, 1-based line where known, one-line message); one bad frame never
+ * stops the others. A file that is empty, binary (NUL bytes, invalid UTF-8) or of an unknown
+ * format gives a single failure. Options: `maxAtoms` per structure (default 20,000).
+ */
+export function readStructures(fileName: string, content: string | Uint8Array, options: ReadOptions = {}): ReadResult[] {
+  const decoded = decodeText(content);
+  if (!decoded.ok) return [failure(fileName, 0, null, decoded.message)];
+  const text = decoded.text;
+  if (text.trim() === '') return [failure(fileName, 0, null, 'empty file')];
+  const format = detectFormat(fileName, text);
+  try {
+    switch (format) {
+      case 'xyz':
+      case 'extxyz':
+        return readXyz(fileName, text, options);
+      case 'mol':
+      case 'sdf':
+        return readMolfile(fileName, text, options);
+      case 'pdb':
+        return readPdb(fileName, text, options);
+      case 'cml':
+        return readCml(fileName, text, options);
+      case 'qcschema':
+        return readQcschema(fileName, text, options);
+      default:
+        return [
+          failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)'),
+        ];
+    }
+  } catch (e) {
+    // The readers catch their own errors; this is a last guard so that a bug never loses the batch.
+    return [failure(fileName, 0, null, `could not read the file: ${(e as Error).message.split('\n')[0]}`)];
+  }
+}
