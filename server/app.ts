@@ -5,6 +5,15 @@ import type { Config } from './config';
 import type { Logger } from './logger';
 import type { Mailer } from './mail/mailer';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { authenticate } from './middleware/authenticate';
+import { csrfProtection } from './middleware/csrf';
+import { bodyParsers, securityHeaders } from './middleware/security';
+import { createAuditRouter } from './modules/audit/router';
+import { createAuthRouter } from './modules/auth/router';
+import { createSessionMiddleware } from './modules/auth/session';
+import { createDevMailboxRouter } from './modules/dev-mailbox/router';
+import { createTokensRouter } from './modules/tokens/router';
+import { createWorkspacesRouter } from './modules/workspaces/router';
 
 /** What the app needs from the outside; index.ts builds the real ones, tests build their own. */
 export interface AppDeps {
@@ -25,7 +34,15 @@ export function createApp(deps: AppDeps): Express {
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
 
+  // --- security, sessions and the caller (auth): order matters ---
+  app.use(securityHeaders(deps.config));
+  app.use(csrfProtection(deps.config));
+  app.use(bodyParsers());
+  app.use(['/api', '/auth'], createSessionMiddleware(deps), authenticate(deps.dataSource));
+
   // --- module routers (each module: server/modules/<name>/router.ts) ---
+  app.use(createAuthRouter(deps));
+  app.use('/api', createWorkspacesRouter(deps), createTokensRouter(deps), createAuditRouter(deps), createDevMailboxRouter(deps));
 
   app.use('/api', apiNotFound);
   app.use(errorHandler(deps.logger));

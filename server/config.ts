@@ -45,6 +45,16 @@ export const configSchema = z.object({
   ZIP_MAX_ENTRIES: z.coerce.number().int().positive().default(5000),
   ZIP_MAX_UNCOMPRESSED_BYTES: z.coerce.number().int().positive().default(1024 * 1024 * 1024),
   ZIP_MAX_RATIO: z.coerce.number().positive().default(200),
+  /** Sign-in attempts allowed per client IP per 15 minutes. */
+  RATE_LIMIT_SIGN_IN: z.coerce.number().int().positive().default(40),
+  /** Invitations an owner may send (and links anyone may try) per hour, per user or IP. */
+  RATE_LIMIT_INVITATIONS: z.coerce.number().int().positive().default(60),
+  /** Batch uploads (and previews) per user per 15 minutes. */
+  RATE_LIMIT_UPLOADS: z.coerce.number().int().positive().default(120),
+  /** How long an invitation link stays valid. */
+  INVITATION_TTL_HOURS: z.coerce.number().positive().max(24 * 90).default(72),
+  /** Lifetime of an idle browser session. */
+  SESSION_MAX_AGE_HOURS: z.coerce.number().positive().max(24 * 90).default(24 * 14),
   /** Directory of the built browser app served by the API. */
   WEB_DIST: z.string().default('dist/web'),
 });

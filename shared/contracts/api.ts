@@ -169,6 +169,8 @@ export const apiTokenSchema = z.object({
   createdAt: z.string(),
   lastUsedAt: z.string().nullable(),
   revokedAt: z.string().nullable(),
+  /** Whose token it is (owners list everyone's tokens of the workspace). */
+  user: z.object({ id: z.string(), name: z.string(), login: z.string() }).optional(),
 });
 export const auditEntrySchema = z.object({
   id: z.string(),
@@ -176,6 +178,56 @@ export const auditEntrySchema = z.object({
   actor: z.object({ id: z.string(), name: z.string() }).nullable(),
   detail: z.record(z.string(), z.unknown()),
   createdAt: z.string(),
+});
+
+/** PATCH /api/workspaces/:slug (owners): rename and/or change default snap settings (merged). */
+export const workspaceUpdateSchema = z
+  .object({
+    name: z.string().trim().min(1).max(200).optional(),
+    defaults: snapSettingsSchema.partial().optional(),
+  })
+  .strict();
+
+/** PATCH /api/workspaces/:slug/members/:userId (owners). */
+export const memberUpdateSchema = z.object({ role: roleSchema }).strict();
+
+/** POST /api/workspaces/:slug/invitations (owners). The address is compared case-insensitively. */
+export const invitationCreateSchema = z
+  .object({ email: z.string().trim().toLowerCase().pipe(z.email().max(320)), role: roleSchema })
+  .strict();
+
+/** GET /api/invitations/:token — public: what the link is for, before signing in. */
+export const invitationPeekSchema = z.object({
+  workspace: z.object({ name: z.string(), slug: z.string() }),
+  role: roleSchema,
+  email: z.string(),
+  invitedBy: z.string(),
+  expiresAt: z.string(),
+  status: z.enum(['pending', 'accepted', 'expired', 'revoked']),
+});
+
+/** POST /api/invitations/:token/accept — the workspace joined. */
+export const invitationAcceptedSchema = z.object({
+  workspace: z.object({ id: z.string(), slug: z.string(), name: z.string() }),
+  role: roleSchema,
+});
+
+/** POST /api/workspaces/:slug/tokens. */
+export const apiTokenCreateSchema = z.object({ label: z.string().trim().min(1).max(200) }).strict();
+/** The created token; `token` is the secret, shown this once and never again. */
+export const apiTokenCreatedSchema = apiTokenSchema.extend({ token: z.string() });
+
+/** GET /api/workspaces/:slug/audit query. */
+export const auditQuerySchema = paginationQuerySchema.extend({ action: z.string().max(64).optional() });
+
+/** GET /api/workspaces/:slug/dev-mailbox: messages in the local fake inbox (development only). */
+export const devMailMessageSchema = z.object({
+  id: z.string(),
+  from: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  text: z.string(),
+  date: z.string(),
 });
 
 /** Body of an error response: `{ error: { code, message } }`. */

@@ -48,3 +48,42 @@ export async function recordAudit(db: DataSource | EntityManager, input: AuditIn
     }),
   );
 }
+
+/** One page of a workspace's audit log, newest first, with actor names. */
+export async function listAudit(
+  dataSource: DataSource,
+  workspaceId: string,
+  query: { page: number; pageSize: number; action?: string },
+): Promise<{ items: { id: string; action: string; actor: { id: string; name: string } | null; detail: Record<string, unknown>; createdAt: string }[]; total: number; page: number; pageSize: number }> {
+  const qb = dataSource
+    .getRepository(AuditEntry)
+    .createQueryBuilder('a')
+    .leftJoin('users', 'u', 'u.id = a.actor_id')
+    // Sign-ins belong to no workspace; an owner sees those of the people currently in theirs.
+    .where(
+      `(a.workspace_id = :workspaceId OR (a.workspace_id IS NULL AND a.action = 'sign-in'
+        AND a.actor_id IN (SELECT m.user_id FROM memberships m WHERE m.workspace_id = :workspaceId)))`,
+      { workspaceId },
+    );
+  if (query.action) qb.andWhere('a.action = :action', { action: query.action });
+  const total = await qb.getCount();
+  const rows = await qb
+    .select(['a.id AS id', 'a.action AS action', 'a.detail AS detail', 'a.created_at AS created_at', 'a.actor_id AS actor_id', 'u.name AS actor_name'])
+    .orderBy('a.created_at', 'DESC')
+    .addOrderBy('a.id', 'DESC')
+    .offset((query.page - 1) * query.pageSize)
+    .limit(query.pageSize)
+    .getRawMany<{ id: string; action: string; detail: Record<string, unknown>; created_at: Date; actor_id: string | null; actor_name: string | null }>();
+  return {
+    items: rows.map((r) => ({
+      id: r.id,
+      action: r.action,
+      actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? 'Former user' } : null,
+      detail: r.detail ?? {},
+      createdAt: new Date(r.created_at).toISOString(),
+    })),
+    total,
+    page: query.page,
+    pageSize: query.pageSize,
+  };
+}
