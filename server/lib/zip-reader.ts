@@ -155,7 +155,13 @@ export async function readZip(source: Buffer | string, limits: ZipLimits = {}): 
           }
           chunks.push(chunk);
         });
-        stream.on('error', (e: Error) => stop(fail('bad-request', `entry ${shown} is damaged (${e.message})`)));
+        stream.on('error', (e: Error) =>
+          stop(
+            /too many bytes/.test(e.message)
+              ? fail('too-large', `entry ${shown} holds more data than its header declares; refused as a possible ZIP bomb`)
+              : fail('bad-request', `entry ${shown} is damaged (${e.message})`),
+          ),
+        );
         stream.on('end', () => {
           if (settled) return;
           total += bytes;
