@@ -1,6 +1,5 @@
 import { data, redirect, type LoaderFunctionArgs } from 'react-router-dom';
-import { meQueryOptions } from '@/features/auth/api/get-me';
-import { takeReturnPath } from '@/features/auth/return-path';
+import { meQueryOptions } from '@/lib/me';
 import { isApiError } from '@/lib/api-client';
 import { queryClient } from '@/lib/query-client';
 
@@ -18,11 +17,9 @@ export async function requireMeLoader({ request }: LoaderFunctionArgs) {
   return null;
 }
 
-/** `/`: back to where sign-in started, else the first workspace, else the "no workspace" page. */
+/** `/`: the first workspace, else the "no workspace" page. */
 export async function homeLoader() {
   const me = await queryClient.ensureQueryData(meQueryOptions());
-  const next = takeReturnPath();
-  if (next && next !== '/') throw redirect(next);
   const first = me.memberships[0];
   if (first) throw redirect(`/w/${encodeURIComponent(first.workspace.slug)}`);
   return null;

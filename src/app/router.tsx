@@ -16,6 +16,7 @@ import { RouteError } from './pages/route-error';
  */
 export const routes: RouteObject[] = [
   { path: '/sign-in', Component: SignInPage },
+  { path: '/invite/:token', lazy: () => import('@/features/workspaces/invite-route'), errorElement: <RouteError />, HydrateFallback: PageSpinner },
   {
     path: '/',
     id: 'root',
@@ -28,7 +29,6 @@ export const routes: RouteObject[] = [
         errorElement: <RouteError />,
         children: [
           { index: true, loader: homeLoader, Component: NoWorkspacePage },
-          // Next commits: { path: 'invite/:token', lazy: () => import('@/features/workspaces/invite-route') },
           {
             path: 'w/:slug',
             loader: workspaceLoader,
@@ -39,7 +39,7 @@ export const routes: RouteObject[] = [
               { path: 'batches/:batchId', lazy: () => import('@/features/batch/route') },
               // TODO(web B): uncomment when src/features/structure/route.tsx lands (exports loader + Component).
               // { path: 'structures/:structureId', lazy: () => import('@/features/structure/route') },
-              // Next commits: { path: 'settings', lazy: () => import('@/features/settings/route') },
+              { path: 'settings', lazy: () => import('@/features/settings/route') },
               { path: '*', Component: NotFoundPage },
             ],
           },

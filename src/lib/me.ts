@@ -3,7 +3,7 @@ import { meSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
 
-/** GET /api/me — the signed-in user and their workspaces with a role in each. 401 when signed out. */
+/** GET /api/me (core to every page, hence in lib/) — the signed-in user and their workspaces with a role in each. 401 when signed out. */
 export function fetchMe(signal?: AbortSignal) {
   return apiFetch('/api/me', { schema: meSchema, signal });
 }

@@ -1,6 +1,6 @@
 import { createContext, useContext } from 'react';
 import type { z } from 'zod';
-import type { Role, workspaceSchema } from '@shared/contracts/api';
+import type { Role, userSchema, workspaceSchema } from '@shared/contracts/api';
 
 /**
  * The workspace the current route is in, with the caller's role there. Provided by the
@@ -9,6 +9,8 @@ import type { Role, workspaceSchema } from '@shared/contracts/api';
 export interface CurrentWorkspace {
   workspace: z.infer<typeof workspaceSchema>;
   role: Role;
+  /** The signed-in user. */
+  user: z.infer<typeof userSchema>;
 }
 
 export const WorkspaceContext = createContext<CurrentWorkspace | null>(null);

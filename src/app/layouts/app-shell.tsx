@@ -1,6 +1,6 @@
 import { Suspense } from 'react';
 import { NavLink, Outlet, useNavigate, useNavigation, useParams } from 'react-router-dom';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { useSignOut } from '@/features/auth/api/sign-out';
 import { WorkspaceSwitcher } from '@/features/workspaces/components/workspace-switcher';
 import { Badge } from '@/components/ui/badge';
@@ -44,7 +44,7 @@ export function AppShell() {
               Batches
             </RailLink>
             {canWrite(membership.role) && <RailLink to={`${base}/new`}>New batch</RailLink>}
-            {isOwner(membership.role) && <RailLink to={`${base}/settings`}>Settings</RailLink>}
+            <RailLink to={`${base}/settings`}>{isOwner(membership.role) ? 'Settings' : 'API tokens'}</RailLink>
           </nav>
         )}
         <div className="mt-auto flex flex-col gap-2 border-t border-rule pt-4 text-sm">

@@ -1,5 +1,5 @@
 import { Outlet, useParams } from 'react-router-dom';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { WorkspaceContext } from '@/lib/workspace-context';
 import { NotFoundPage } from '../pages/not-found-page';
 
@@ -10,7 +10,7 @@ export function WorkspaceLayout() {
   const membership = me.memberships.find((m) => m.workspace.slug === slug);
   if (!membership) return <NotFoundPage />;
   return (
-    <WorkspaceContext.Provider value={{ workspace: membership.workspace, role: membership.role }}>
+    <WorkspaceContext.Provider value={{ workspace: membership.workspace, role: membership.role, user: me.user }}>
       <Outlet />
     </WorkspaceContext.Provider>
   );

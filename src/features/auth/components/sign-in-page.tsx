@@ -1,7 +1,6 @@
 import { useSearchParams } from 'react-router-dom';
 import { buttonClass } from '@/components/ui/button';
 import { NameMark } from '@/components/ui/name-mark';
-import { rememberReturnPath } from '../return-path';
 
 /**
  * The sign-in page: one button that starts the provider's OAuth flow (in development, the local
@@ -11,6 +10,8 @@ export function SignInPage() {
   const [params] = useSearchParams();
   const next = params.get('next');
   const failed = params.get('error');
+  // The server keeps `returnTo` in the session across the provider round trip (same-site paths only).
+  const href = isSamePath(next) ? `/auth/github?returnTo=${encodeURIComponent(next)}` : '/auth/github';
   return (
     <main className="flex min-h-screen items-center justify-center bg-paper px-4">
       <div className="w-full max-w-sm rounded-xl border border-rule bg-card p-8 shadow-sm">
@@ -21,12 +22,11 @@ export function SignInPage() {
         </p>
         {failed && (
           <p role="alert" className="mt-4 rounded-md bg-brick-wash px-3 py-2 text-sm text-brick">
-            Sign-in did not complete. Try again.
+            {failureMessages[failed] ?? failureMessages.provider}
           </p>
         )}
         <a
-          href="/auth/github"
-          onClick={() => rememberReturnPath(next)}
+          href={href}
           className={buttonClass('primary', 'md', 'mt-6 w-full')}
         >
           <KeyGlyph />
@@ -38,6 +38,19 @@ export function SignInPage() {
       </div>
     </main>
   );
+}
+
+/** Codes the server puts in `/sign-in?error=` when the provider round trip fails. */
+const failureMessages: Record<string, string> = {
+  cancelled: 'Sign-in was cancelled. Try again when you’re ready.',
+  state: 'The sign-in took too long or was started in another tab. Try again.',
+  'no-verified-email': 'Your account has no verified e-mail address with the provider; Pointfold needs one.',
+  'account-conflict': 'That e-mail address already belongs to another Pointfold account.',
+  provider: 'The sign-in provider could not be reached. Try again in a moment.',
+};
+
+function isSamePath(path: string | null): path is string {
+  return !!path && path.startsWith('/') && !path.startsWith('//') && !path.startsWith('/sign-in');
 }
 
 function KeyGlyph() {

@@ -1,11 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { ReactNode } from 'react';
-import { Controller, FormProvider, useForm, type Resolver } from 'react-hook-form';
+import { Controller, FormProvider, useForm } from 'react-hook-form';
 import type { SnapSettings } from '@shared/contracts/settings';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { SnapSettingsFields } from '@/components/ui/snap-settings-fields';
 import { InlineError } from '@/components/ui/states';
+import { toFormSettings } from '@/lib/snap-settings-form';
 import { newBatchFormSchema, newBatchMessages, suggestName, type NewBatchFormInput, type NewBatchValues } from '../form-schema';
 import { DropZone } from './drop-zone';
 
@@ -32,11 +33,11 @@ export function NewBatchForm({
   submitError?: string | null;
 }) {
   const form = useForm<NewBatchFormInput, unknown, NewBatchValues>({
-    resolver: zodResolver(newBatchFormSchema) as unknown as Resolver<NewBatchFormInput, unknown, NewBatchValues>,
+    resolver: zodResolver(newBatchFormSchema),
     defaultValues: {
       name: '',
       files: [],
-      settings: { ...defaults, target: { kind: defaults.target.kind, group: defaults.target.kind === 'group' ? defaults.target.group : '' } },
+      settings: toFormSettings(defaults),
     },
     mode: 'onSubmit',
     reValidateMode: 'onChange',
