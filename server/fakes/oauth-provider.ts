@@ -22,7 +22,7 @@ export interface FakeAccount {
 export interface FakeOAuthProviderOptions {
   host?: string;
   port?: number;
-  /** Host names a `redirect_uri` may point at. Default: loopback names only. */
+  /** Hosts a `redirect_uri` may point at: `name` (any port) or `name:port`. Default: loopback names. */
   callbackHosts?: string[];
   /** OAuth clients the fake accepts. Default: the development client from server/config.ts. */
   clients?: { id: string; secret: string }[];
@@ -103,7 +103,9 @@ export async function startFakeOAuthProvider(options: FakeOAuthProviderOptions =
     } catch {
       return 'redirect_uri is not a URL.';
     }
-    if (!['http:', 'https:'].includes(url.protocol) || !callbackHosts.has(url.hostname.toLowerCase())) {
+    // An entry with a port ("127.0.0.1:4380") pins the port too; a bare name allows any port.
+    const allowed = callbackHosts.has(url.host.toLowerCase()) || callbackHosts.has(url.hostname.toLowerCase());
+    if (!['http:', 'https:'].includes(url.protocol) || !allowed) {
       return `redirect_uri must point at one of: ${[...callbackHosts].join(', ')}.`;
     }
     return null;

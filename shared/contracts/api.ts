@@ -180,11 +180,28 @@ export const auditEntrySchema = z.object({
   createdAt: z.string(),
 });
 
+const settingsShape = snapSettingsSchema.shape;
+/**
+ * Some snap settings, as given: unlike `snapSettingsSchema.partial()` (whose defaults fill every
+ * missing key) an absent key stays absent, so a patch changes only what it names.
+ */
+export const snapSettingsPatchSchema = z
+  .object({
+    tolerance: settingsShape.tolerance.unwrap().optional(),
+    target: settingsShape.target.unwrap().optional(),
+    frame: settingsShape.frame.unwrap().optional(),
+    displacementBudget: settingsShape.displacementBudget.unwrap().optional(),
+    charge: settingsShape.charge.unwrap().optional(),
+    multiplicity: settingsShape.multiplicity.unwrap().optional(),
+    outputFormats: settingsShape.outputFormats.unwrap().optional(),
+  })
+  .strict();
+
 /** PATCH /api/workspaces/:slug (owners): rename and/or change default snap settings (merged). */
 export const workspaceUpdateSchema = z
   .object({
     name: z.string().trim().min(1).max(200).optional(),
-    defaults: snapSettingsSchema.partial().optional(),
+    defaults: snapSettingsPatchSchema.optional(),
   })
   .strict();
 
