@@ -36,6 +36,18 @@ export default defineConfig({
         extends: true,
         test: { name: 'web', include: ['tests/web/**/*.test.tsx'], environment: 'jsdom' },
       },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.e2e.ts'],
+          environment: 'node',
+          globalSetup: ['tests/e2e/global-setup.ts'],
+          fileParallelism: false,
+          testTimeout: 120_000,
+          hookTimeout: 300_000,
+        },
+      },
     ],
   },
 });

@@ -14,6 +14,8 @@ import { createSessionMiddleware } from './modules/auth/session';
 import { createDevMailboxRouter } from './modules/dev-mailbox/router';
 import { createTokensRouter } from './modules/tokens/router';
 import { createWorkspacesRouter } from './modules/workspaces/router';
+import { createHealthRouter } from './modules/health/router';
+import { createWebAppRouter } from './web-app';
 
 /** What the app needs from the outside; index.ts builds the real ones, tests build their own. */
 export interface AppDeps {
@@ -41,10 +43,13 @@ export function createApp(deps: AppDeps): Express {
   app.use(['/api', '/auth'], createSessionMiddleware(deps), authenticate(deps.dataSource));
 
   // --- module routers (each module: server/modules/<name>/router.ts) ---
+  app.use('/api', createHealthRouter(deps));
   app.use(createAuthRouter(deps));
   app.use('/api', createWorkspacesRouter(deps), createTokensRouter(deps), createAuditRouter(deps), createDevMailboxRouter(deps));
 
   app.use('/api', apiNotFound);
+  const webApp = createWebAppRouter(deps.config.WEB_DIST);
+  if (webApp) app.use(webApp);
   app.use(errorHandler(deps.logger));
   return app;
 }

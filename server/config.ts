@@ -57,6 +57,8 @@ export const configSchema = z.object({
   SESSION_MAX_AGE_HOURS: z.coerce.number().positive().max(24 * 90).default(24 * 14),
   /** Directory of the built browser app served by the API. */
   WEB_DIST: z.string().default('dist/web'),
+  /** 1: `npm start` uses DATABASE_URL and REDIS_URL as given and starts no local PostgreSQL or Redis. */
+  PF_EXTERNAL_SERVICES: bool,
 });
 export type Config = z.infer<typeof configSchema>;
 
