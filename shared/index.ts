@@ -6,3 +6,5 @@ export * from './contracts/structure';
 export * from './contracts/settings';
 export * from './contracts/api';
 export * from './elements';
+export * from './engine';
+export * from './formats';

@@ -1,0 +1,85 @@
+import { existsSync } from 'node:fs';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { EXIT_BAD_INPUT, EXIT_USAGE, UsageError } from './options';
+import { printError } from './output';
+
+/**
+ * The `pointfold` command line: `npm run --silent pointfold -- <command> …` (DESIGN.md, "The
+ * command line"). Each command's module is loaded only when used, so `snap`, `perceive` and
+ * `ladder` start without the server, the database layer or the queue.
+ */
+
+const HELP = `Usage: pointfold <command> [options]
+
+Commands:
+  snap FILE...       perceive, snap onto exact symmetry, orient, report (and write files)
+  perceive FILE...   perceive point groups without changing the structures
+  ladder FILE...     the groups perceived across tolerances 1e-4 to 0.3 Å, with snap costs
+  submit FILE...     upload a batch to a Pointfold server, wait, download the cleaned files
+  token create       print a new API token for a user (operator command, local database)
+
+Run pointfold <command> --help for the options of each.
+Exit status: 0 done; 1 bad input (the other structures are still processed); 2 usage error.`;
+
+type Runner = (argv: string[]) => Promise<number>;
+
+/** Commands written in another module that may not exist yet in this build: loaded by file URL. */
+async function external(file: string, command: string): Promise<Runner> {
+  const url = new URL(file, import.meta.url);
+  if (!existsSync(fileURLToPath(url))) {
+    return async () => {
+      printError(`pointfold ${command}: not available yet in this build`);
+      return EXIT_BAD_INPUT;
+    };
+  }
+  const mod = (await import(pathToFileURL(fileURLToPath(url)).href)) as { run?: Runner };
+  if (typeof mod.run !== 'function') throw new Error(`${file} does not export run(argv)`);
+  return mod.run;
+}
+
+const COMMANDS: Record<string, () => Promise<Runner>> = {
+  snap: async () => (await import('./snap-command')).runSnap,
+  perceive: async () => (await import('./perceive-command')).runPerceive,
+  ladder: async () => (await import('./perceive-command')).runLadder,
+  submit: () => external('./submit.ts', 'submit'),
+  token: () => external('./token.ts', 'token'),
+};
+
+/** Run the CLI with `argv` (without node and the script). Returns the exit status. */
+export async function main(argv: string[]): Promise<number> {
+  const [command, ...rest] = argv;
+  if (command == null || command === '--help' || command === '-h' || command === 'help') {
+    process.stdout.write(`${HELP}\n`);
+    return command == null ? EXIT_USAGE : 0;
+  }
+  const load = COMMANDS[command];
+  if (load == null) {
+    printError(`pointfold: unknown command '${command}' (commands: ${Object.keys(COMMANDS).join(', ')}; see pointfold --help)`);
+    return EXIT_USAGE;
+  }
+  try {
+    return await (await load())(rest);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      printError(e.message);
+      return EXIT_USAGE;
+    }
+    throw e;
+  }
+}
+
+if (process.argv[1] != null && fileURLToPath(import.meta.url) === process.argv[1]) {
+  // `npm run` starts scripts in the package root; paths on the command line are meant relative
+  // to where the user typed them, which npm passes as INIT_CWD.
+  if (process.env.npm_lifecycle_event === 'pointfold' && process.env.INIT_CWD) process.chdir(process.env.INIT_CWD);
+  main(process.argv.slice(2)).then(
+    (code) => {
+      process.exitCode = code;
+    },
+    (e: unknown) => {
+      // A bug of ours, not bad input: keep the stack for the report (exit status 70, EX_SOFTWARE).
+      process.stderr.write(`pointfold: internal error: ${(e as Error)?.stack ?? String(e)}\n`);
+      process.exitCode = 70;
+    },
+  );
+}

@@ -1,0 +1,110 @@
+import { writeSync } from 'node:fs';
+
+/** Helpers for what the CLI prints: aligned tables, numbers, formulas, buffered stdout. */
+
+/** A column of {@link renderTable}: header, and whether to right-align (numbers). */
+export interface Column {
+  header: string;
+  right?: boolean;
+}
+
+/** An aligned plain-text table (two spaces between columns, a dashed rule under the header). */
+export function renderTable(columns: Column[], rows: string[][]): string {
+  const width = columns.map((c, i) => Math.max(c.header.length, ...rows.map((r) => [...(r[i] ?? '')].length)));
+  const cell = (text: string, i: number) => {
+    const padding = ' '.repeat(width[i] - [...text].length);
+    return columns[i].right ? padding + text : text + padding;
+  };
+  const line = (cells: string[]) => cells.map(cell).join('  ').trimEnd();
+  return [line(columns.map((c) => c.header)), line(width.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
+}
+
+/** A length in Å for a table: `0`, `3.2e-4`, `0.0123`, `1.25`. */
+export function formatLength(v: number): string {
+  if (v === 0) return '0';
+  if (!Number.isFinite(v)) return String(v);
+  return Math.abs(v) < 0.01 ? v.toExponential(1) : v.toPrecision(3);
+}
+
+/** A CSM value (0–100) for a table. */
+export function formatCsm(v: number): string {
+  if (v === 0) return '0';
+  return v < 0.01 ? v.toExponential(1) : v.toPrecision(3);
+}
+
+/** Group order for a table: `∞` for the linear groups (order 0 in the JSON). */
+export function formatOrder(order: number): string {
+  return order === 0 ? '∞' : String(order);
+}
+
+/**
+ * Molecular formula in Hill order (Hill, J. Am. Chem. Soc. 22, 478 (1900)): with carbon, C then
+ * H then the rest alphabetically; without carbon, all alphabetically. Counts of 1 omitted.
+ */
+export function hillFormula(elements: readonly string[]): string {
+  const counts = new Map<string, number>();
+  for (const e of elements) counts.set(e, (counts.get(e) ?? 0) + 1);
+  const keys = [...counts.keys()].sort();
+  const order = counts.has('C') ? ['C', ...(counts.has('H') ? ['H'] : []), ...keys.filter((k) => k !== 'C' && k !== 'H')] : keys;
+  return order.map((k) => `${k}${counts.get(k) === 1 ? '' : counts.get(k)}`).join('');
+}
+
+/**
+ * Buffered writes to a file descriptor (stdout by default). Writes are synchronous so that
+ * output is complete before the process exits, and batched so that 10⁴ small writes cost little.
+ */
+export class BufferedOut {
+  private parts: string[] = [];
+  private size = 0;
+
+  constructor(private readonly fd = 1) {}
+
+  write(text: string): void {
+    this.parts.push(text);
+    this.size += text.length;
+    if (this.size > 1 << 20) this.flush();
+  }
+
+  flush(): void {
+    if (this.parts.length === 0) return;
+    const buf = Buffer.from(this.parts.join(''), 'utf8');
+    this.parts = [];
+    this.size = 0;
+    let off = 0;
+    while (off < buf.length) {
+      try {
+        off += writeSync(this.fd, buf, off);
+      } catch (e) {
+        // A non-blocking pipe that is full: wait for the reader and retry.
+        if ((e as NodeJS.ErrnoException).code !== 'EAGAIN') throw e;
+        Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 5);
+      }
+    }
+  }
+}
+
+/** One line on stderr. */
+export function printError(message: string): void {
+  process.stderr.write(`${message.replace(/\s*\n\s*/g, ' ')}\n`);
+}
+
+/**
+ * Progress on stderr for long runs, only when stderr is a terminal (scripts and pipes stay clean).
+ * Returns a function to call with the count done; call `done()` to clear the line.
+ */
+export function progress(label: string, total: number): { tick: (n: number) => void; done: () => void } {
+  const show = process.stderr.isTTY === true && total >= 200;
+  let last = 0;
+  return {
+    tick: (n) => {
+      if (!show) return;
+      const now = Date.now();
+      if (now - last < 200 && n < total) return;
+      last = now;
+      process.stderr.write(`\r${label}: ${n}/${total} structures`);
+    },
+    done: () => {
+      if (show) process.stderr.write('\r\u001b[2K');
+    },
+  };
+}

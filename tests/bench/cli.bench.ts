@@ -1,0 +1,55 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { GENERATORS, rng, syntheticStructure, toXyz } from './synthetic-structures';
+
+/**
+ * CLI throughput: `pointfold snap --json` on a multi-frame XYZ of 5,000 synthetic structures
+ * (invented data: 20–60 atoms in symmetry orbits of 15 common groups, randomly rotated, ±1e-3 Å
+ * noise; see synthetic-structures.ts), timed from process start to exit, single process.
+ * Target on the 2-core development machine: ≥ 2,000 structures/s. Also prints the start-up time
+ * alone (`--help`) and how often the perceived group equals the construction group.
+ */
+
+const ROOT = fileURLToPath(new URL('../../', import.meta.url));
+const TSX = join(ROOT, 'node_modules/.bin/tsx');
+const CLI = join(ROOT, 'server/cli/index.ts');
+
+export async function runCliBench(count = 5000): Promise<void> {
+  const random = rng(20240611);
+  const groups = Object.keys(GENERATORS);
+  const structures = Array.from({ length: count }, (_, i) => syntheticStructure(groups[i % groups.length], random));
+  const atoms = structures.reduce((n, s) => n + s.atoms.length, 0);
+  const dir = mkdtempSync(join(tmpdir(), 'pf-cli-bench-'));
+  try {
+    const file = join(dir, 'synthetic.xyz');
+    writeFileSync(file, toXyz(structures));
+
+    let t = performance.now();
+    spawnSync(TSX, [CLI, '--help'], { cwd: ROOT, encoding: 'utf8' });
+    const startup = performance.now() - t;
+
+    t = performance.now();
+    const run = spawnSync(TSX, [CLI, 'snap', file, '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 2 ** 31 - 1 });
+    const seconds = (performance.now() - t) / 1000;
+    if (run.error) throw run.error;
+    const out = JSON.parse(run.stdout) as { structures: { pointGroup?: string; error?: string }[] };
+    const failed = out.structures.filter((s) => s.error != null).length;
+    const agree = out.structures.filter((s, i) => s.pointGroup === structures[i].group).length;
+    const mib = Buffer.byteLength(run.stdout) / 2 ** 20;
+
+    console.log(`cli: snap --json, ${count} synthetic structures (${atoms} atoms, mean ${(atoms / count).toFixed(1)}), one process`);
+    console.log(`cli:   wall ${seconds.toFixed(2)} s including start-up → ${(count / seconds).toFixed(0)} structures/s (target ≥ 2000)`);
+    console.log(`cli:   start-up alone (--help) ${startup.toFixed(0)} ms; JSON out ${mib.toFixed(1)} MiB; exit status ${run.status}`);
+    console.log(`cli:   ${failed} failed; perceived group = construction group for ${agree}/${count}`);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+if (process.argv[1] != null && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const n = Number(process.argv[2] ?? 5000);
+  await runCliBench(n);
+}
