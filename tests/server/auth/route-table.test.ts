@@ -1,7 +1,9 @@
 import { randomUUID } from 'node:crypto';
+import express, { Router } from 'express';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROLE_CHECK } from '../../../server/modules/workspaces/access';
+import { requireAuth } from '../../../server/middleware/authenticate';
+import { ANY_ROLE, ROLE_CHECK, workspaceAccess } from '../../../server/modules/workspaces/access';
 import { seedDemoWorkspace } from '../../../server/modules/workspaces/seed';
 import { buildTestApp, createUser, signInAs, type TestApp } from '../../support/app';
 import { createTestDatabase, type TestDatabase } from '../../support/db';
@@ -88,6 +90,19 @@ describe('route-table audit', () => {
       if (res.status !== 401) failures.push(`${key(r)} → ${res.status}`);
     }
     expect(failures).toEqual([]);
+  });
+
+  it('sees nested mounts and tells a guarded route from an unguarded one (self-check of the audit)', () => {
+    const inner = Router();
+    inner.post('/things/:id', requireAuth, (_req, res) => void res.end());
+    inner.get('/workspaces/:slug/things', workspaceAccess(db.dataSource, ANY_ROLE), (_req, res) => void res.end());
+    const outer = Router();
+    outer.use('/v2', inner);
+    const app = express();
+    app.use('/api', outer);
+    const found = listRoutes(app);
+    expect(found.map(key)).toEqual(['POST /api/v2/things/:id', 'GET /api/v2/workspaces/:slug/things']);
+    expect(found.filter((r) => !r.handlers.some((h) => ROLE_CHECK in h)).map(key)).toEqual(['POST /api/v2/things/:id']);
   });
 
   it('puts a workspace role check (workspaceAccess) on every route that is neither public nor user-level', () => {
