@@ -1,0 +1,116 @@
+import { generateCandidates } from './candidates';
+import { identifyGroup } from './identify';
+import { bestLine } from './inertia';
+import type { Vec3 } from './mat3';
+import type { PreparedMolecule } from './molecule';
+import { matchOperation } from './operations';
+import { closeUnder, createOpStore, type OpStore, type SymOp } from './op-store';
+
+/** Tolerance (Å) at which candidate operations are searched: the top of the ladder. */
+export const CANDIDATE_TOLERANCE = 0.3;
+
+/**
+ * Everything perception learns about one structure, once: the candidate operations with their
+ * residuals (tolerance-independent), the best line and the inversion pairing for the linear
+ * groups. The group at any tolerance is then read off without touching the atoms again
+ * (except to form products not met yet).
+ */
+export interface Analysis {
+  readonly mol: PreparedMolecule;
+  readonly store: OpStore;
+  /** Direction of the best line through the centre of mass. */
+  readonly lineDirection: Vec3;
+  /** 2 × the largest distance of an atom from that line (Å): the residual of C∞ (its C₂). */
+  readonly lineResidual: number;
+  /** Inversion pairing and its residual (Å), if every atom has a partner within the loose tolerance. */
+  readonly inversionPerm: Int32Array | null;
+  readonly inversionResidual: number;
+  readonly cache: Map<number, FoundGroup>;
+}
+
+/** The group perceived at one tolerance. */
+export interface FoundGroup {
+  readonly name: string;
+  /** |G|, 0 for C∞v, D∞h and Kh. */
+  readonly order: number;
+  readonly tolerance: number;
+  /** Elements (identity first) for finite groups; empty for the infinite ones. */
+  readonly elements: readonly SymOp[];
+  /** Some operation within the tolerance could not be added without breaking closure. */
+  readonly notClosed: boolean;
+  /** Identity of the element set (for memoising snaps). */
+  readonly id: string;
+}
+
+/** Structures this close to a line (Å) are treated as exactly linear: no finite search. */
+const EXACTLY_LINEAR = 1e-7;
+
+/** Runs the tolerance-independent part of perception. `maxTolerance` ≥ the largest tolerance asked later. */
+export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANCE): Analysis {
+  const tol = Math.max(CANDIDATE_TOLERANCE, maxTolerance);
+  const store = createOpStore(mol, tol);
+  const line = bestLine(mol.y);
+  const lineResidual = mol.n <= 2 ? 0 : 2 * line.maxDistance;
+  const inv = new Int32Array(mol.n);
+  const invRes = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
+  if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
+  return {
+    mol,
+    store,
+    lineDirection: line.direction,
+    lineResidual,
+    inversionPerm: Number.isFinite(invRes) ? inv : null,
+    inversionResidual: invRes,
+    cache: new Map(),
+  };
+}
+
+/**
+ * The group at tolerance `t` (Å): Kh for one atom; C∞v/D∞h when the structure is within `t` of
+ * a line (D∞h if also of the inversion); otherwise the largest closed set of found operations
+ * with residual ≤ t, built greedily in order of increasing residual — an operation whose
+ * closure with the group so far would need a product beyond `t` (or cannot be named) is left
+ * out and `notClosed` is set.
+ */
+export function groupAt(a: Analysis, t: number): FoundGroup {
+  const hit = a.cache.get(t);
+  if (hit) return hit;
+  const found = computeGroupAt(a, t);
+  a.cache.set(t, found);
+  return found;
+}
+
+function computeGroupAt(a: Analysis, t: number): FoundGroup {
+  const { mol, store } = a;
+  if (mol.n === 1) return { name: 'Kh', order: 0, tolerance: t, elements: [], notClosed: false, id: 'Kh' };
+  if (a.lineResidual <= t) {
+    const name = a.inversionResidual <= t ? 'D∞h' : 'C∞v';
+    return { name, order: 0, tolerance: t, elements: [], notClosed: false, id: name };
+  }
+  const ops = [...store.byKey.values()]
+    .filter((op) => op.residual <= t && op.key !== store.identity.key)
+    .sort((p, q) => p.residual - q.residual || p.key - q.key);
+  let elements: SymOp[] = [store.identity];
+  const gens: SymOp[] = [];
+  let inGroup = new Set<number>([store.identity.key]);
+  let name = 'C1';
+  let notClosed = false;
+  for (const op of ops) {
+    if (inGroup.has(op.key)) continue;
+    const closed = closeUnder(store, [...gens, op], t);
+    const named = closed ? identifyGroup(closed) : null;
+    if (closed && named) {
+      elements = closed;
+      gens.push(op);
+      inGroup = new Set(closed.map((e) => e.key));
+      name = named;
+    } else {
+      notClosed = true;
+    }
+  }
+  const id = `${name}:${elements
+    .map((e) => e.key)
+    .sort((p, q) => p - q)
+    .join(',')}`;
+  return { name, order: elements.length, tolerance: t, elements, notClosed, id };
+}

@@ -1,0 +1,286 @@
+import { principalAxes } from './inertia';
+import {
+  canonicalDirection,
+  cross3,
+  dot3,
+  improper3,
+  inversion3,
+  normalize3,
+  reflection3,
+  rotation3,
+  type Mat3,
+  type Vec3,
+} from './mat3';
+import { matchOperation, probeOperation } from './operations';
+import { addOperation, refineOperation, type OpStore } from './op-store';
+
+/**
+ * Candidate symmetry operations of a structure, found once at a loose tolerance (the store's
+ * `tol`) and refined to their own best fit, so that each operation's residual no longer depends
+ * on the tolerance asked for later. The generation follows the usual published outline
+ * (Cotton 1990 ch. 3; Largent, Polik & Schmidt, J. Comput. Chem. 33, 1637 (2012); Beruski &
+ * Vidal, J. Comput. Chem. 35, 290 (2014)), adapted to be O(N) per tested operation:
+ *
+ * - atoms are grouped into shells (same element, same distance from the centre within `tol`);
+ *   every operation maps a shell onto itself;
+ * - axes that can carry Cₙ (n ≥ 3) or Sₙ: the molecular principal axes of inertia, the principal
+ *   axes of small shells, and directions of reference atoms; the possible orders n come from
+ *   the ring sizes around the axis (n divides every ring of off-axis atoms);
+ * - C₂ axes and mirror planes from one non-axial shell with reference atoms r₀, r₁, r₂: a C₂
+ *   sending r₀ to r_j has its axis along r₀ + r_j (or ⊥ r₀ when r_j = −r₀, then found from r₁
+ *   or from r₀ × r₁); a mirror sending r₀ to r_j has normal r₀ − r_j (or contains r₀ …);
+ * - for cubic and icosahedral structures, C₃/C₄/C₅ axes placed relative to each triple of
+ *   mutually perpendicular C₂ axes (body diagonals, coordinate axes, (0, ±1, ±φ)).
+ * Products of operations (closure) are formed later, on demand (op-store `product`).
+ * Each candidate is first probed on a few atoms, then matched on all N atoms with the
+ * neighbour grid, then refined (Procrustes fit to its pairing, angle snapped to 2π/n).
+ */
+export function generateCandidates(store: OpStore): void {
+  const { mol, tol } = store;
+  const { y, n } = mol;
+  if (n < 2) return;
+  const probe = probeAtoms(store);
+  const tested = new Set<string>();
+  const perm = new Int32Array(n);
+  const images = new Int32Array(probe.length);
+
+  const tryMatrix = (m: Mat3, det: 1 | -1): boolean => {
+    if (!probeOperation(store.ctx, m, tol, probe, images)) return false;
+    // probe[0], probe[1] are the anchors: the key is known before the O(N) match.
+    const key = (images[0] * n + images[1]) * 2 + (det < 0 ? 1 : 0);
+    if (store.byKey.has(key)) return true;
+    if (!Number.isFinite(matchOperation(store.ctx, m, tol, perm))) return false;
+    const op = refineOperation(store, perm.slice(), det);
+    if (!op) return false;
+    addOperation(store, op);
+    return true;
+  };
+  const once = (tag: string, d: Vec3): boolean => {
+    const c = canonicalDirection(d);
+    const k = `${tag}:${Math.round(c[0] * 2000)},${Math.round(c[1] * 2000)},${Math.round(c[2] * 2000)}`;
+    if (tested.has(k)) return false;
+    tested.add(k);
+    return true;
+  };
+  const testAxis = (d: Vec3 | null, orders: readonly number[]) => {
+    if (!d) return;
+    for (const order of orders) {
+      if (!once(`C${order}`, d)) continue;
+      if (tryMatrix(rotation3(d, (2 * Math.PI) / order), 1) && once(`S${2 * order}`, d)) {
+        tryMatrix(improper3(d, Math.PI / order), -1);
+      }
+    }
+  };
+  const testMirror = (d: Vec3 | null) => {
+    if (d && once('s', d)) tryMatrix(reflection3(d), -1);
+  };
+
+  tryMatrix(inversion3(), -1);
+
+  const shells = buildShells(store);
+  const highOrderAxes: Vec3[] = principalAxes(y, mol.masses).axes;
+  const pairShells: number[][] = [];
+  for (const shell of shells) {
+    if (pairShells.length > 0 && shell.length > 2 * pairShells[0].length) break;
+    const r0 = atomVector(y, shell[0]);
+    if (normalize3(r0, tol) === null) continue; // atom at the centre
+    highOrderAxes.push(r0);
+    if (shell.length >= 3) highOrderAxes.push(...principalAxes(y, null, shell).axes);
+    const refs = referenceAtoms(y, shell, tol);
+    if (refs.length >= 2) pairShells.push(shell);
+    if (pairShells.length >= 2 || highOrderAxes.length > 40) break;
+  }
+
+  const ringAtoms = n <= 4000 ? null : shells.slice(0, 8).flat();
+  for (const a of highOrderAxes) {
+    const d = normalize3(a);
+    if (!d) continue;
+    testAxis(d, possibleOrders(store, d, ringAtoms));
+    testMirror(d);
+  }
+  for (const shell of pairShells) {
+    const refs = referenceAtoms(y, shell, tol);
+    for (const r of refs) {
+      const ri = atomVector(y, r);
+      for (const j of shell) {
+        const rj = atomVector(y, j);
+        const sum = normalize3([ri[0] + rj[0], ri[1] + rj[1], ri[2] + rj[2]], tol);
+        testAxis(sum, [2]);
+        if (j !== r) testMirror(normalize3([ri[0] - rj[0], ri[1] - rj[1], ri[2] - rj[2]], tol));
+        const c = normalize3(cross3(ri, rj), tol * tol);
+        testAxis(c, [2]);
+        testMirror(c);
+      }
+    }
+  }
+  augmentCubic(store, testAxis);
+}
+
+/** Atoms probed before a full match: the two anchors, then atoms spread over the structure. */
+function probeAtoms(store: OpStore): number[] {
+  const { n, y } = store.mol;
+  const out = [store.a1, store.a2];
+  // the atom farthest from the anchors' plane, then a few spread by index
+  const u = atomVector(y, store.a1);
+  const v = atomVector(y, store.a2);
+  const w = normalize3(cross3(u, v));
+  if (w) {
+    let best = -1;
+    let a3 = -1;
+    for (let i = 0; i < n; i++) {
+      const d = Math.abs(dot3(w, atomVector(y, i)));
+      if (d > best) {
+        best = d;
+        a3 = i;
+      }
+    }
+    if (a3 >= 0 && !out.includes(a3)) out.push(a3);
+  }
+  const step = Math.max(1, Math.floor(n / 6));
+  for (let i = 0; i < n && out.length < 9; i += step) if (!out.includes(i)) out.push(i);
+  return out;
+}
+
+function atomVector(y: Float64Array, i: number): Vec3 {
+  return [y[3 * i], y[3 * i + 1], y[3 * i + 2]];
+}
+
+/**
+ * Shells: atoms of one element whose distances from the centre chain together within `tol`,
+ * ordered by size (smallest first), then by radius (largest first), then by first atom index.
+ */
+function buildShells(store: OpStore): number[][] {
+  const { y, n, kinds } = store.mol;
+  const r = new Float64Array(n);
+  for (let i = 0; i < n; i++) r[i] = Math.hypot(y[3 * i], y[3 * i + 1], y[3 * i + 2]);
+  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => kinds[a] - kinds[b] || r[a] - r[b] || a - b);
+  const shells: number[][] = [];
+  let cur: number[] = [];
+  for (let k = 0; k < n; k++) {
+    const i = order[k];
+    const prev = cur.length ? cur[cur.length - 1] : -1;
+    if (prev >= 0 && (kinds[prev] !== kinds[i] || r[i] - r[prev] > store.tol)) {
+      shells.push(cur);
+      cur = [];
+    }
+    cur.push(i);
+  }
+  if (cur.length) shells.push(cur);
+  const rad = (s: number[]) => r[s[0]];
+  return shells.sort((a, b) => a.length - b.length || rad(b) - rad(a) || a[0] - b[0]);
+}
+
+/** Up to three atoms of a shell spanning it: the first, the farthest from its line, the farthest from their plane. */
+function referenceAtoms(y: Float64Array, shell: readonly number[], tol: number): number[] {
+  const r0 = atomVector(y, shell[0]);
+  const u = normalize3(r0);
+  if (!u) return [];
+  let i1 = -1;
+  let best = 2 * tol;
+  for (const j of shell) {
+    const d = Math.hypot(...cross3(u, atomVector(y, j)));
+    if (d > best) {
+      best = d;
+      i1 = j;
+    }
+  }
+  if (i1 < 0) return [shell[0]];
+  const w = normalize3(cross3(r0, atomVector(y, i1)))!;
+  let i2 = -1;
+  best = 2 * tol;
+  for (const j of shell) {
+    const d = Math.abs(dot3(w, atomVector(y, j)));
+    if (d > best) {
+      best = d;
+      i2 = j;
+    }
+  }
+  return i2 >= 0 ? [shell[0], i1, i2] : [shell[0], i1];
+}
+
+/** Largest rotation order tested about one axis. */
+export const MAX_AXIS_ORDER = 32;
+
+/**
+ * Orders n ≥ 2 a rotation about unit axis `d` could have: n must divide the number of off-axis
+ * atoms of each element in each ring (atoms at the same height along `d`, chained within tol).
+ * With no off-axis atom at all (a linear arrangement) only 2 is proposed.
+ */
+function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number[] {
+  const { y, kinds } = store.mol;
+  const tol = store.tol;
+  const list = atoms ?? Array.from({ length: store.mol.n }, (_, i) => i);
+  const items: { kind: number; h: number }[] = [];
+  for (const i of list) {
+    const v = atomVector(y, i);
+    const h = dot3(v, d);
+    const rho2 = dot3(v, v) - h * h;
+    if (rho2 > tol * tol) items.push({ kind: kinds[i], h });
+  }
+  if (items.length === 0) return [2];
+  items.sort((a, b) => a.kind - b.kind || a.h - b.h);
+  let g = 0;
+  let count = 0;
+  for (let k = 0; k < items.length; k++) {
+    count++;
+    const next = items[k + 1];
+    if (!next || next.kind !== items[k].kind || next.h - items[k].h > tol) {
+      g = gcdInt(g, count);
+      count = 0;
+    }
+  }
+  const out: number[] = [];
+  for (let m = 2; m <= Math.min(g, MAX_AXIS_ORDER); m++) if (g % m === 0) out.push(m);
+  return out;
+}
+
+function gcdInt(a: number, b: number): number {
+  while (b) [a, b] = [b, a % b];
+  return a;
+}
+
+/** Axes of order 3, 4 and 5 placed relative to triples of mutually perpendicular C₂ axes. */
+function augmentCubic(store: OpStore, testAxis: (d: Vec3 | null, orders: readonly number[]) => void): void {
+  const c2: Vec3[] = [];
+  for (const op of store.byKey.values()) {
+    if (op.det === 1 && op.order === 2 && op.residual <= store.tol) c2.push(op.axis);
+  }
+  if (c2.length < 3) return;
+  const phi = (1 + Math.sqrt(5)) / 2;
+  let triples = 0;
+  for (let a = 0; a < c2.length && triples < 6; a++) {
+    for (let b = a + 1; b < c2.length && triples < 6; b++) {
+      if (Math.abs(dot3(c2[a], c2[b])) > 0.1) continue;
+      for (let c = b + 1; c < c2.length && triples < 6; c++) {
+        if (Math.abs(dot3(c2[a], c2[c])) > 0.1 || Math.abs(dot3(c2[b], c2[c])) > 0.1) continue;
+        triples++;
+        const ex = c2[a];
+        const ez = normalize3(cross3(ex, c2[b]))!;
+        const ey = cross3(ez, ex);
+        const at = (p: number, q: number, r: number): Vec3 | null =>
+          normalize3([p * ex[0] + q * ey[0] + r * ez[0], p * ex[1] + q * ey[1] + r * ez[1], p * ex[2] + q * ey[2] + r * ez[2]]);
+        for (const s of [
+          [1, 1, 1],
+          [1, 1, -1],
+          [1, -1, 1],
+          [-1, 1, 1],
+        ]) {
+          testAxis(at(s[0], s[1], s[2]), [3]);
+        }
+        testAxis(ex, [4]);
+        testAxis(ey, [4]);
+        testAxis(ez, [4]);
+        for (const s of [1, -1]) {
+          for (const [p, q] of [
+            [1, phi],
+            [phi, 1],
+          ]) {
+            testAxis(at(0, p, s * q), [5]);
+            testAxis(at(p, s * q, 0), [5]);
+            testAxis(at(s * q, 0, p), [5]);
+          }
+        }
+      }
+    }
+  }
+}

@@ -1,0 +1,130 @@
+import type { AtomJson } from '../contracts/structure';
+import { atomicNumber, atomicWeight, normalizeElement } from '../elements';
+import { EngineError } from './errors';
+import { buildNeighbourGrid, forEachClosePair } from './neighbour-grid';
+
+/** Largest structure the engine accepts (atoms). Above it, EngineError 'too-many-atoms'. */
+export const MAX_ATOMS = 200_000;
+/** Largest accepted |coordinate| (Å). */
+export const MAX_COORDINATE = 1e6;
+/** Atoms closer than this (Å) are rejected as the same atom given twice. */
+export const COINCIDENT_DISTANCE = 0.01;
+/** Atoms closer than this (Å) raise the 'close-contact' flag. */
+export const CLOSE_CONTACT_DISTANCE = 0.5;
+
+/**
+ * A validated structure, centred at its centre of mass (IUPAC 2021 standard atomic weights via
+ * shared/elements). Immutable after construction; all engine stages read it.
+ */
+export interface PreparedMolecule {
+  readonly n: number;
+  /** Canonical element symbols, input order. */
+  readonly symbols: readonly string[];
+  /** Element ids (equal ids = same element); index into `kindSymbols`. */
+  readonly kinds: Int32Array;
+  readonly kindSymbols: readonly string[];
+  readonly masses: Float64Array;
+  readonly atomicNumbers: Int32Array;
+  /** Centre of mass of the input (Å, input frame). */
+  readonly centre: [number, number, number];
+  /** Centred coordinates y = x − centre (x0,y0,z0,x1,…, Å). */
+  readonly y: Float64Array;
+  /** Largest |yᵢ| (Å). */
+  readonly radius: number;
+  /** Shortest interatomic distance below CLOSE_CONTACT_DISTANCE, or null. */
+  readonly closeContact: { i: number; j: number; distance: number } | null;
+}
+
+/**
+ * Validates atoms and centres them. Throws EngineError with a one-line message for: no atoms
+ * ('empty'), more than MAX_ATOMS ('too-many-atoms'), an unknown element ('unknown-element'),
+ * a non-finite or huge coordinate ('bad-coordinates'), two atoms within 0.01 Å
+ * ('coincident-atoms'). Cost O(N) via a spatial hash.
+ */
+export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
+  if (!Array.isArray(atoms) || atoms.length === 0) throw new EngineError('empty', 'the structure has no atoms');
+  const n = atoms.length;
+  if (n > MAX_ATOMS) {
+    throw new EngineError('too-many-atoms', `the structure has ${n} atoms; the engine accepts at most ${MAX_ATOMS}`);
+  }
+  const symbols: string[] = new Array(n);
+  const kinds = new Int32Array(n);
+  const masses = new Float64Array(n);
+  const numbers = new Int32Array(n);
+  const kindIndex = new Map<string, number>();
+  const kindSymbols: string[] = [];
+  const x = new Float64Array(3 * n);
+  for (let i = 0; i < n; i++) {
+    const a = atoms[i];
+    const sym = a && typeof a.element === 'string' ? normalizeElement(a.element) : null;
+    if (sym == null) {
+      throw new EngineError('unknown-element', `atom ${i + 1}: unknown element '${String(a?.element ?? '')}'`);
+    }
+    symbols[i] = sym;
+    let k = kindIndex.get(sym);
+    if (k === undefined) {
+      k = kindSymbols.length;
+      kindIndex.set(sym, k);
+      kindSymbols.push(sym);
+    }
+    kinds[i] = k;
+    masses[i] = atomicWeight(sym);
+    numbers[i] = atomicNumber(sym);
+    const c = [a.x, a.y, a.z];
+    for (let d = 0; d < 3; d++) {
+      const v = c[d];
+      if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE) {
+        throw new EngineError(
+          'bad-coordinates',
+          `atom ${i + 1} (${sym}): coordinate ${'xyz'[d]} = ${String(v)} is not a finite number within ±${MAX_COORDINATE} Å`,
+        );
+      }
+      x[3 * i + d] = v;
+    }
+  }
+  let mt = 0;
+  const centre: [number, number, number] = [0, 0, 0];
+  for (let i = 0; i < n; i++) {
+    mt += masses[i];
+    for (let d = 0; d < 3; d++) centre[d] += masses[i] * x[3 * i + d];
+  }
+  for (let d = 0; d < 3; d++) centre[d] /= mt;
+  const y = new Float64Array(3 * n);
+  let radius = 0;
+  for (let i = 0; i < n; i++) {
+    for (let d = 0; d < 3; d++) y[3 * i + d] = x[3 * i + d] - centre[d];
+    radius = Math.max(radius, Math.hypot(y[3 * i], y[3 * i + 1], y[3 * i + 2]));
+  }
+  const closeContact = findCloseContact(y, kinds);
+  return { n, symbols, kinds, kindSymbols, masses, atomicNumbers: numbers, centre, y, radius, closeContact };
+}
+
+function findCloseContact(y: Float64Array, kinds: Int32Array): PreparedMolecule['closeContact'] {
+  const n = kinds.length;
+  const grid = buildNeighbourGrid(y, kinds, CLOSE_CONTACT_DISTANCE);
+  let best: PreparedMolecule['closeContact'] = null;
+  let pairs = 0;
+  // Real structures have at most a few close pairs per atom; a cap keeps junk input from
+  // turning the O(N) scan quadratic.
+  const cap = 20 * n + 1000;
+  const coincident: { pair: [number, number, number] | null } = { pair: null };
+  const finished = forEachClosePair(grid, CLOSE_CONTACT_DISTANCE, (i, j, d) => {
+    if (d < COINCIDENT_DISTANCE) {
+      coincident.pair = [i, j, d];
+      return false;
+    }
+    if (!best || d < best.distance) best = { i, j, distance: d };
+    return ++pairs <= cap;
+  });
+  if (coincident.pair) {
+    const [i, j, d] = coincident.pair;
+    throw new EngineError(
+      'coincident-atoms',
+      `atoms ${i + 1} and ${j + 1} are ${d.toExponential(2)} Å apart (closer than ${COINCIDENT_DISTANCE} Å): the same atom given twice?`,
+    );
+  }
+  if (!finished) {
+    throw new EngineError('bad-coordinates', `more than ${cap} atom pairs are closer than ${CLOSE_CONTACT_DISTANCE} Å: not a molecular structure`);
+  }
+  return best;
+}

@@ -1,0 +1,164 @@
+/**
+ * A uniform spatial hash for "nearest atom of the same element within r" queries: O(1) per query
+ * for molecular densities, so testing one symmetry operation on N atoms costs O(N), never O(N²).
+ * Cells are cubes of edge `cell` (Å); a query of radius ≤ cell looks at the 27 cells around the
+ * point. The table is open-addressed on typed arrays (no per-cell objects).
+ */
+export interface NeighbourGrid {
+  readonly cell: number;
+  readonly coords: Float64Array;
+  readonly kinds: Int32Array;
+  /** Hash slots: cell coordinates and the cell's range in `atoms`. */
+  readonly slotX: Int32Array;
+  readonly slotY: Int32Array;
+  readonly slotZ: Int32Array;
+  readonly slotStart: Int32Array;
+  readonly slotEnd: Int32Array;
+  readonly mask: number;
+  /** Atom indices ordered by cell. */
+  readonly atoms: Int32Array;
+}
+
+const EMPTY = -1;
+
+function hash(ix: number, iy: number, iz: number, mask: number): number {
+  return (Math.imul(ix, 73856093) ^ Math.imul(iy, 19349663) ^ Math.imul(iz, 83492791)) & mask;
+}
+
+/**
+ * Builds the grid over centred coordinates `coords` (x0,y0,z0,…, Å) with element ids `kinds`.
+ * `cell` must be positive; queries must use a radius ≤ `cell`.
+ */
+export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell: number): NeighbourGrid {
+  const n = kinds.length;
+  let size = 16;
+  while (size < 2 * n) size *= 2;
+  const mask = size - 1;
+  const slotX = new Int32Array(size);
+  const slotY = new Int32Array(size);
+  const slotZ = new Int32Array(size);
+  const slotCount = new Int32Array(size);
+  const slotStart = new Int32Array(size).fill(EMPTY);
+  const slotEnd = new Int32Array(size);
+  const slotOf = new Int32Array(n);
+  const inv = 1 / cell;
+  for (let i = 0; i < n; i++) {
+    const ix = Math.floor(coords[3 * i] * inv);
+    const iy = Math.floor(coords[3 * i + 1] * inv);
+    const iz = Math.floor(coords[3 * i + 2] * inv);
+    let h = hash(ix, iy, iz, mask);
+    while (slotStart[h] !== EMPTY && (slotX[h] !== ix || slotY[h] !== iy || slotZ[h] !== iz)) h = (h + 1) & mask;
+    if (slotStart[h] === EMPTY) {
+      slotStart[h] = 0;
+      slotX[h] = ix;
+      slotY[h] = iy;
+      slotZ[h] = iz;
+    }
+    slotCount[h]++;
+    slotOf[i] = h;
+  }
+  let offset = 0;
+  for (let h = 0; h < size; h++) {
+    if (slotStart[h] === EMPTY) continue;
+    slotStart[h] = offset;
+    slotEnd[h] = offset;
+    offset += slotCount[h];
+  }
+  const atoms = new Int32Array(n);
+  for (let i = 0; i < n; i++) atoms[slotEnd[slotOf[i]]++] = i;
+  return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms };
+}
+
+/**
+ * Index of the atom of element `kind` nearest to (x, y, z) within `radius` Å (≤ grid cell), or −1.
+ * The squared distance of the hit is left in `out[0]` when `out` is given.
+ */
+export function nearestOfKind(
+  g: NeighbourGrid,
+  x: number,
+  y: number,
+  z: number,
+  kind: number,
+  radius: number,
+  out?: Float64Array,
+): number {
+  const inv = 1 / g.cell;
+  const cx = Math.floor(x * inv);
+  const cy = Math.floor(y * inv);
+  const cz = Math.floor(z * inv);
+  let best = -1;
+  let bestD2 = radius * radius;
+  const { coords, kinds, atoms, slotStart, slotEnd, slotX, slotY, slotZ, mask } = g;
+  for (let dx = -1; dx <= 1; dx++) {
+    for (let dy = -1; dy <= 1; dy++) {
+      for (let dz = -1; dz <= 1; dz++) {
+        const ix = cx + dx;
+        const iy = cy + dy;
+        const iz = cz + dz;
+        let h = hash(ix, iy, iz, mask);
+        while (slotStart[h] !== EMPTY && (slotX[h] !== ix || slotY[h] !== iy || slotZ[h] !== iz)) h = (h + 1) & mask;
+        if (slotStart[h] === EMPTY) continue;
+        for (let k = slotStart[h], end = slotEnd[h]; k < end; k++) {
+          const j = atoms[k];
+          if (kinds[j] !== kind) continue;
+          const ex = coords[3 * j] - x;
+          const ey = coords[3 * j + 1] - y;
+          const ez = coords[3 * j + 2] - z;
+          const d2 = ex * ex + ey * ey + ez * ez;
+          if (d2 <= bestD2) {
+            // Ties go to the lower index so that matching is deterministic.
+            if (d2 < bestD2 || best < 0 || j < best) best = j;
+            bestD2 = d2;
+          }
+        }
+      }
+    }
+  }
+  if (out && best >= 0) out[0] = bestD2;
+  return best;
+}
+
+/**
+ * Calls `visit(i, j, d)` for every pair of atoms (any elements) closer than `radius` ≤ cell, each
+ * pair once (i < j). Stops early and returns false if `visit` returns false.
+ */
+export function forEachClosePair(
+  g: NeighbourGrid,
+  radius: number,
+  visit: (i: number, j: number, d: number) => boolean,
+): boolean {
+  const { coords, atoms, slotStart, slotEnd, slotX, slotY, slotZ, mask } = g;
+  const n = atoms.length;
+  const r2 = radius * radius;
+  const inv = 1 / g.cell;
+  for (let i = 0; i < n; i++) {
+    const x = coords[3 * i];
+    const y = coords[3 * i + 1];
+    const z = coords[3 * i + 2];
+    const cx = Math.floor(x * inv);
+    const cy = Math.floor(y * inv);
+    const cz = Math.floor(z * inv);
+    for (let dx = -1; dx <= 1; dx++) {
+      for (let dy = -1; dy <= 1; dy++) {
+        for (let dz = -1; dz <= 1; dz++) {
+          const ix = cx + dx;
+          const iy = cy + dy;
+          const iz = cz + dz;
+          let h = hash(ix, iy, iz, mask);
+          while (slotStart[h] !== EMPTY && (slotX[h] !== ix || slotY[h] !== iy || slotZ[h] !== iz)) h = (h + 1) & mask;
+          if (slotStart[h] === EMPTY) continue;
+          for (let k = slotStart[h], end = slotEnd[h]; k < end; k++) {
+            const j = atoms[k];
+            if (j <= i) continue;
+            const ex = coords[3 * j] - x;
+            const ey = coords[3 * j + 1] - y;
+            const ez = coords[3 * j + 2] - z;
+            const d2 = ex * ex + ey * ey + ez * ez;
+            if (d2 < r2 && !visit(i, j, Math.sqrt(d2))) return false;
+          }
+        }
+      }
+    }
+  }
+  return true;
+}

@@ -1,0 +1,211 @@
+import type { PreparedMolecule } from './molecule';
+import { buildNeighbourGrid } from './neighbour-grid';
+import {
+  fitElement,
+  matchOperation,
+  residualWithPermutation,
+  typeSignature,
+  type MatchContext,
+  type OpType,
+} from './operations';
+import { identity3, mul3, type Mat3 } from './mat3';
+
+/**
+ * One symmetry operation found in a structure: an exact point-group element (matrix in the
+ * centred input frame, fitted to the data), the atom permutation it induces and its residual.
+ */
+export interface SymOp extends OpType {
+  /** Identity of the operation within one structure (see {@link OpStore}). */
+  readonly key: number;
+  readonly perm: Int32Array;
+  readonly matrix: Mat3;
+  /** Largest |M yᵢ − y_π(i)| over atoms, Å: the smallest tolerance at which it is accepted. */
+  readonly residual: number;
+  /** {@link typeSignature} of the element. */
+  readonly sig: string;
+}
+
+/**
+ * All operations known for one structure, keyed by their action on two anchor atoms.
+ *
+ * Why two anchors suffice: an element of a point group acting on a structure that is not
+ * linear is fixed by its determinant and the images of two atoms a₁, a₂ whose position vectors
+ * are not parallel — if g and h agree there, g⁻¹h is a rotation fixing two independent vectors,
+ * i.e. the identity (or, for det −1 vs +1, differs in determinant). So key(g) =
+ * (π(a₁)·N + π(a₂))·2 + [det < 0] identifies g, and key(g∘h) is computed in O(1) from h's
+ * anchor images and g's permutation. Closure checks are then O(|G|·|generators|), not O(|G|²·N).
+ */
+export interface OpStore {
+  readonly mol: PreparedMolecule;
+  readonly ctx: MatchContext;
+  /** Loose tolerance (Å) at which candidates were matched. */
+  readonly tol: number;
+  readonly a1: number;
+  readonly a2: number;
+  readonly byKey: Map<number, SymOp>;
+  readonly identity: SymOp;
+}
+
+/** Creates the store with the identity and the anchors (farthest atom; farthest from its line). */
+export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
+  const { y, n } = mol;
+  let a1 = 0;
+  let best = -1;
+  for (let i = 0; i < n; i++) {
+    const r2 = y[3 * i] ** 2 + y[3 * i + 1] ** 2 + y[3 * i + 2] ** 2;
+    if (r2 > best + 1e-12) {
+      best = r2;
+      a1 = i;
+    }
+  }
+  const u = [y[3 * a1], y[3 * a1 + 1], y[3 * a1 + 2]];
+  const un = Math.hypot(u[0], u[1], u[2]) || 1;
+  let a2 = a1;
+  let bestD = -1;
+  for (let i = 0; i < n; i++) {
+    const cx = (y[3 * i + 1] * u[2] - y[3 * i + 2] * u[1]) / un;
+    const cy = (y[3 * i + 2] * u[0] - y[3 * i] * u[2]) / un;
+    const cz = (y[3 * i] * u[1] - y[3 * i + 1] * u[0]) / un;
+    const d = cx * cx + cy * cy + cz * cz;
+    if (d > bestD + 1e-12) {
+      bestD = d;
+      a2 = i;
+    }
+  }
+  const grid = buildNeighbourGrid(y, mol.kinds, tol);
+  const perm = new Int32Array(n);
+  for (let i = 0; i < n; i++) perm[i] = i;
+  const store: OpStore = {
+    mol,
+    ctx: { y, kinds: mol.kinds, grid },
+    tol,
+    a1,
+    a2,
+    byKey: new Map(),
+    identity: undefined as unknown as SymOp,
+  };
+  const identity: SymOp = {
+    key: keyOf(store, perm, 1),
+    perm,
+    matrix: identity3(),
+    residual: 0,
+    det: 1,
+    kind: 'identity',
+    order: 1,
+    j: 0,
+    axis: [0, 0, 0],
+    sig: '+0/1',
+  };
+  (store as { identity: SymOp }).identity = identity;
+  store.byKey.set(identity.key, identity);
+  return store;
+}
+
+/** Key of an operation from its permutation and determinant. */
+export function keyOf(store: Pick<OpStore, 'a1' | 'a2' | 'mol'>, perm: Int32Array, det: number): number {
+  return (perm[store.a1] * store.mol.n + perm[store.a2]) * 2 + (det < 0 ? 1 : 0);
+}
+
+/** Key of g∘h (first h, then g) in O(1). */
+export function productKey(store: OpStore, g: SymOp, h: SymOp): number {
+  return (g.perm[h.perm[store.a1]] * store.mol.n + g.perm[h.perm[store.a2]]) * 2 + (g.det * h.det < 0 ? 1 : 0);
+}
+
+/**
+ * Fits an exact element to a permutation, re-pairs atoms by nearest neighbour under the fitted
+ * matrix and repeats until the pairing is stable (≤ 4 rounds). Returns null if the pairing
+ * does not belong to a point-group element or does not survive at the store's tolerance.
+ */
+export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): SymOp | null {
+  const { y } = store.mol;
+  let p = perm;
+  for (let round = 0; round < 4; round++) {
+    const fit = fitElement(y, p, det);
+    if (!fit) return null;
+    const next = new Int32Array(p.length);
+    const residual = matchOperation(store.ctx, fit.matrix, store.tol, next);
+    if (!Number.isFinite(residual)) return null;
+    let same = true;
+    for (let i = 0; i < p.length; i++) {
+      if (next[i] !== p[i]) {
+        same = false;
+        break;
+      }
+    }
+    if (same) {
+      return { ...fit.type, key: keyOf(store, p, det), perm: p, matrix: fit.matrix, residual, sig: typeSignature(fit.type) };
+    }
+    p = next;
+  }
+  return null;
+}
+
+/** Adds a refined operation unless one with the same key is already known; returns the stored one. */
+export function addOperation(store: OpStore, op: SymOp): SymOp {
+  const old = store.byKey.get(op.key);
+  if (old) return old;
+  store.byKey.set(op.key, op);
+  return op;
+}
+
+/**
+ * g∘h as a stored operation. When it is not yet known its permutation is composed and an exact
+ * element fitted to it; its residual is measured with that composed permutation (so the found
+ * operations always multiply like their permutations). An impossible product is stored with
+ * residual Infinity so that it is computed once.
+ */
+export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
+  const key = productKey(store, g, h);
+  const known = store.byKey.get(key);
+  if (known) return known;
+  const n = store.mol.n;
+  const perm = new Int32Array(n);
+  for (let i = 0; i < n; i++) perm[i] = g.perm[h.perm[i]];
+  const det = (g.det * h.det) as 1 | -1;
+  const fit = fitElement(store.mol.y, perm, det);
+  const op: SymOp = fit
+    ? {
+        ...fit.type,
+        key,
+        perm,
+        matrix: fit.matrix,
+        residual: residualWithPermutation(store.mol.y, fit.matrix, perm),
+        sig: typeSignature(fit.type),
+      }
+    : {
+        key,
+        perm,
+        matrix: mul3(g.matrix, h.matrix),
+        residual: Infinity,
+        det,
+        kind: det > 0 ? 'rotation' : 'improper',
+        order: 0,
+        j: 0,
+        axis: [0, 0, 0],
+        sig: '?',
+      };
+  store.byKey.set(key, op);
+  return op;
+}
+
+/**
+ * The closure of `generators` under composition, as long as every element has residual ≤ `tol`
+ * and the group stays within `maxOrder` elements. Returns the elements (identity first) or
+ * null when some product exceeds the tolerance (the operations do not close at `tol`).
+ */
+export function closeUnder(store: OpStore, generators: readonly SymOp[], tol: number, maxOrder = 256): SymOp[] | null {
+  const elements: SymOp[] = [store.identity];
+  const seen = new Set<number>([store.identity.key]);
+  for (let k = 0; k < elements.length; k++) {
+    const e = elements[k];
+    for (const g of generators) {
+      const p = product(store, e, g);
+      if (seen.has(p.key)) continue;
+      if (!(p.residual <= tol)) return null;
+      seen.add(p.key);
+      elements.push(p);
+      if (elements.length > maxOrder) return null;
+    }
+  }
+  return elements;
+}

@@ -1,0 +1,87 @@
+import type { AtomJson, FlagCode, OperationJson, StructureResult } from '../contracts/structure';
+import { analyse, groupAt } from './analysis';
+import { EngineError } from './errors';
+import { fitGroup } from './fit-frame';
+import { groupOrder } from './groups';
+import type { LadderRungJson } from '../contracts/structure';
+import { mul3, transpose3 } from './mat3';
+import { prepareMolecule } from './molecule';
+import { describe, equivalenceClasses, ladderJson, orientFit } from './report';
+
+/** What {@link perceive} returns: the group at one tolerance, in the input frame. */
+export interface Perception {
+  pointGroup: string;
+  /** |G|; 0 for C∞v, D∞h and Kh. */
+  order: number;
+  tolerance: number;
+  /** Operations of the fitted group in the input frame centred at the centre of mass. */
+  operations: OperationJson[];
+  elements: StructureResult['elements'];
+  equivalenceClasses: number[][];
+  uniqueAtoms: number[];
+  flags: FlagCode[];
+  flagNotes: StructureResult['flagNotes'];
+}
+
+/**
+ * The point group of a structure at `tolerance` Å (default 0.01): the largest distance allowed
+ * between an atom's image under an operation and its partner atom of the same element. Reports
+ * every operation (matrix, permutation, residual), the symmetry elements and the classes of
+ * equivalent atoms, in the input frame (centred at the centre of mass). Flags: 'not-closed',
+ * 'knife-edge', 'close-contact'. @throws EngineError for unusable input.
+ */
+export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: number }): Perception {
+  const tol = options?.tolerance ?? 0.01;
+  if (!(tol > 0) || tol > 1) throw new EngineError('bad-settings', `tolerance ${tol} Å is outside (0, 1] Å`);
+  const mol = prepareMolecule(atoms);
+  const a = analyse(mol, 2 * tol);
+  const found = groupAt(a, tol);
+  const o = orientFit(a, fitGroup(a, found));
+  const { operations, elements } = describe(o, mul3(o.fit.Q, transpose3(o.S)));
+  const classes = equivalenceClasses(mol.n, o.fit.perms);
+  const flags: FlagCode[] = [];
+  const flagNotes: StructureResult['flagNotes'] = [];
+  if (found.notClosed) {
+    flags.push('not-closed');
+    flagNotes.push({
+      flag: 'not-closed',
+      message: `Some operations found within ${tol} Å do not combine into a group; the largest closed group, ${found.name}, was used.`,
+    });
+  }
+  const half = groupAt(a, tol / 2).name;
+  const twice = groupAt(a, 2 * tol).name;
+  if (half !== found.name || twice !== found.name) {
+    flags.push('knife-edge');
+    flagNotes.push({
+      flag: 'knife-edge',
+      message: `The perceived group depends on the tolerance: ${half} at ${tol / 2} Å, ${found.name} at ${tol} Å, ${twice} at ${2 * tol} Å.`,
+    });
+  }
+  if (mol.closeContact) {
+    const c = mol.closeContact;
+    flags.push('close-contact');
+    flagNotes.push({ flag: 'close-contact', message: `Atoms ${c.i + 1} and ${c.j + 1} are only ${c.distance.toPrecision(2)} Å apart.` });
+  }
+  return {
+    pointGroup: found.name,
+    order: groupOrder(found.name),
+    tolerance: tol,
+    operations,
+    elements,
+    equivalenceClasses: classes,
+    uniqueAtoms: classes.map((c) => c[0]),
+    flags,
+    flagNotes,
+  };
+}
+
+/**
+ * The ladder: the group perceived at each of 24 log-spaced tolerances from 1e-4 to 0.3 Å, merged
+ * into ranges [fromTolerance, toTolerance) with exact change points, each with the displacement
+ * RMSD and maximum (Å, after optimal superposition) that snapping to it would cost.
+ * @throws EngineError for unusable input.
+ */
+export function ladder(atoms: readonly AtomJson[]): LadderRungJson[] {
+  const mol = prepareMolecule(atoms);
+  return ladderJson(analyse(mol), new Map());
+}
