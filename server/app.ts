@@ -10,6 +10,8 @@ import { csrfProtection } from './middleware/csrf';
 import { bodyParsers, securityHeaders } from './middleware/security';
 import { createAuditRouter } from './modules/audit/router';
 import { createAuthRouter } from './modules/auth/router';
+import { createBatchesRouter } from './modules/batches/router';
+import { createReviewsRouter } from './modules/reviews/router';
 import { createSessionMiddleware } from './modules/auth/session';
 import { createDevMailboxRouter } from './modules/dev-mailbox/router';
 import { createTokensRouter } from './modules/tokens/router';
@@ -46,6 +48,8 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api', createHealthRouter(deps));
   app.use(createAuthRouter(deps));
   app.use('/api', createWorkspacesRouter(deps), createTokensRouter(deps), createAuditRouter(deps), createDevMailboxRouter(deps));
+
+  app.use('/api', createBatchesRouter(deps), createReviewsRouter(deps));
 
   app.use('/api', apiNotFound);
   const webApp = createWebAppRouter(deps.config.WEB_DIST);

@@ -25,7 +25,7 @@ export interface StructureTimings {
   engineMs: number;
   /** Writing the output files and reading them back (write-back check). */
   writeMs: number;
-  /** Reading the job's input and storing its result. */
+  /** Claiming the structure and reading its input (the result's own write is not included). */
   dbMs: number;
 }
 
