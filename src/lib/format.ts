@@ -44,7 +44,8 @@ export function splitGroup(group: string): { letter: string; subscript: string }
 /** How a screen reader should say a group: "C 2 v" reads better than "C2v" as one word. */
 export function spokenGroup(group: string): string {
   const { letter, subscript } = splitGroup(group);
-  return [letter, ...subscript.replace('∞', ' infinity ').split('')].join(' ').replace(/\s+/g, ' ').trim();
+  const parts = (subscript.match(/\d+|./gu) ?? []).map((t) => (t === '∞' ? 'infinity' : t));
+  return [letter, ...parts].join(' ');
 }
 
 const dateTime = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' });

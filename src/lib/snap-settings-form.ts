@@ -27,6 +27,15 @@ export function toFormSettings(settings: SnapSettings): SnapSettingsFormValues {
   return { ...settings, target: { kind: settings.target.kind, group: settings.target.kind === 'group' ? settings.target.group : '' } };
 }
 
+/** True unless a named target is not a Schoenflies symbol (reads raw values: other fields may be invalid). */
+function isSchoenflies(settings: unknown): boolean {
+  const target = (settings as { target?: { kind?: unknown; group?: unknown } } | null)?.target;
+  if (target?.kind !== 'group') return true;
+  const group = typeof target.group === 'string' ? target.group : '';
+  const oddS = /^S\d+$/.test(group) && Number(group.slice(1)) % 2 !== 0;
+  return schoenfliesPattern.test(group) && !oddS;
+}
+
 export const snapSettingsFormSchema = z.preprocess(
   (value) => {
     const v = value as { target?: { kind?: string; group?: string } } | undefined;
@@ -34,13 +43,11 @@ export const snapSettingsFormSchema = z.preprocess(
     if (v?.target) return { ...v, target: { kind: v.target.kind } };
     return value;
   },
-  snapSettingsSchema.superRefine((settings, ctx) => {
-    if (settings.target.kind !== 'group') return;
-    const group = settings.target.group;
-    const badS = /^S\d+$/.test(group) && Number(group.slice(1)) % 2 !== 0;
-    if (!schoenfliesPattern.test(group) || badS) {
-      ctx.addIssue({ code: 'custom', path: ['target', 'group'], message: 'Not a Schoenflies symbol' });
-    }
+  snapSettingsSchema.refine((settings) => isSchoenflies(settings), {
+    path: ['target', 'group'],
+    message: 'Not a Schoenflies symbol',
+    // Check the group even when other fields are wrong, so every message shows at once.
+    when: () => true,
   }),
   // The preprocess step accepts the form's shape; say so for react-hook-form's resolver types.
 ) as unknown as z.ZodType<SnapSettings, SnapSettingsFormValues>;
