@@ -50,7 +50,7 @@ function GroupsChart({ batch }: { batch: BatchDetail }) {
       ) : (
         <>
           <div className="h-52" aria-hidden>
-            <ResponsiveContainer width="100%" height="100%">
+            <ResponsiveContainer width="100%" height="100%" initialDimension={{ width: 520, height: 208 }}>
               <BarChart data={data} margin={{ top: 8, right: 8, bottom: 4, left: 0 }}>
                 <CartesianGrid vertical={false} stroke={RULE} />
                 <XAxis dataKey="group" tick={tick} interval={0} />
@@ -98,7 +98,7 @@ function DisplacementChart({ slug, batch }: { slug: string; batch: BatchDetail }
       ) : (
         <>
           <div className="h-52" aria-hidden>
-            <ResponsiveContainer width="100%" height="100%">
+            <ResponsiveContainer width="100%" height="100%" initialDimension={{ width: 520, height: 208 }}>
               <BarChart data={bins} margin={{ top: 8, right: 8, bottom: 4, left: 0 }}>
                 <CartesianGrid vertical={false} stroke={RULE} />
                 <XAxis dataKey="label" tick={{ ...tick, fontSize: 10 }} interval={0} angle={-30} textAnchor="end" height={48} />

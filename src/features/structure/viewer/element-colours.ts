@@ -5,14 +5,16 @@ import { atomicNumber, normalizeElement } from '@shared/elements';
  *
  * Rationale: the colour of an atom is derived from where its element sits in the periodic table,
  * not from any viewer's convention, so that a user can reason about an unfamiliar colour:
- * - **Hue by column.** The eight main-group columns (1, 2, 13–18) are spread 45° apart round the
- *   hue circle, because most structures are made of main-group elements and neighbouring columns
- *   (C, N, O; the halogens) must be told apart at a glance. Transition metals (groups 3–12) share
- *   one muted steel band (hue 195°–285°, low saturation), lanthanides and actinides a muted
- *   bronze band: they are rarer and usually one or two per structure, so the legend names them.
- * - **Lightness by period.** Lighter elements are lighter: period 1 is almost white with a tint
- *   of its column's hue, each further period a step darker — the colour says "heavier" without
- *   a lookup.
+ * - **Hue by column.** The eight main-group columns (1, 2, 13–18) are spread round the hue
+ *   circle (40–65° apart, the widest gap between C and N), because most structures are made of
+ *   main-group elements and neighbouring columns (C, N, O; the halogens) must be told apart at a
+ *   glance. Transition metals (groups 3–12) share one muted steel band (hue 195°–285°, low
+ *   saturation), lanthanides and actinides a muted bronze band: they are rarer and usually one or
+ *   two per structure, so the legend names them.
+ * - **Depth by period.** Period 1 is almost white with a tint of its column's hue, period 2
+ *   pastel, period 3 deep and saturated, periods 4–7 darker and greyer; from period 3 on each
+ *   period also turns the hue 15° further — the colour says "heavier" without a lookup, and
+ *   O/S, F/Cl/Br differ in hue as well as depth.
  * - **Contrast.** Every colour is then lightened, if needed, until it has at least 3:1 contrast
  *   with the viewer's background (WCAG 2.1 SC 1.4.11, non-text contrast), computed with the WCAG
  *   relative-luminance formula. The test in tests/web/structure checks all 118 elements.
@@ -54,16 +56,23 @@ export function tablePosition(z: number): TablePosition {
 
 const MAIN_COLUMNS = [1, 2, 13, 14, 15, 16, 17, 18];
 
+/** Hue of each main-group column (1, 2, 13–18), degrees: wider gaps where neighbours meet often (C, N, O). */
+const MAIN_HUES = [15, 55, 95, 135, 200, 255, 300, 340];
+/** Per period 1–7: lightness and saturation of main-group colours. */
+const PERIOD_LIGHTNESS = [0.88, 0.7, 0.55, 0.45, 0.42, 0.42, 0.42];
+const PERIOD_SATURATION = [0.45, 0.65, 0.8, 0.5, 0.35, 0.3, 0.3];
+/** Hue turn (degrees) per period below period 2, so O/S/Se and F/Cl/Br differ in hue as well as depth. */
+const HEAVY_HUE_TURN = 15;
+
 /** Hue (degrees), saturation and lightness (0–1) before the contrast step. */
 export function baseHsl(position: TablePosition): [number, number, number] {
   const { period, group, fIndex } = position;
-  // Period 1 almost white; then a step darker per period.
-  const lightness = period === 1 ? 0.88 : Math.max(0.42, 0.74 - 0.06 * (period - 2));
+  const lightness = PERIOD_LIGHTNESS[period - 1];
   if (fIndex !== null) return [28 + fIndex * 2.5, 0.28, lightness];
   const main = MAIN_COLUMNS.indexOf(group!);
   if (main >= 0) {
-    const hue = (15 + main * 45) % 360;
-    return [hue, period === 1 ? 0.45 : 0.62, lightness];
+    const hue = (MAIN_HUES[main] + Math.max(0, period - 2) * HEAVY_HUE_TURN) % 360;
+    return [hue, PERIOD_SATURATION[period - 1], lightness];
   }
   return [195 + (group! - 3) * 10, 0.22, lightness];
 }
