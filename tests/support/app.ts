@@ -87,7 +87,15 @@ export async function buildTestApp(options: BuildTestAppOptions): Promise<TestAp
     redis,
     mailer,
   };
-  const app = createApp(deps);
+  let app: Express;
+  try {
+    app = createApp(deps);
+  } catch (err) {
+    server.close();
+    await oauth.close();
+    redis.disconnect();
+    throw err;
+  }
   server.on('request', app);
 
   const testApp: TestApp = {

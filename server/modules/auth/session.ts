@@ -3,7 +3,7 @@ import session from 'express-session';
 import type { RequestHandler } from 'express';
 import type { Pool } from 'pg';
 import type { DataSource } from 'typeorm';
-import { publicUrl, type Config } from '../../config';
+import { configSchema, publicUrl, type Config } from '../../config';
 import type { Logger } from '../../logger';
 
 declare module 'express-session' {
@@ -28,6 +28,10 @@ function poolOf(dataSource: DataSource): Pool {
  */
 export function createSessionMiddleware(deps: { config: Config; dataSource: DataSource; logger: Logger }): RequestHandler {
   const { config } = deps;
+  if (config.NODE_ENV === 'production' && config.SESSION_SECRET === configSchema.shape.SESSION_SECRET.parse(undefined)) {
+    // The default is public (it is in the repository): cookies and invitation links signed with it could be forged.
+    throw new Error('Invalid configuration: SESSION_SECRET must be set to a private random value in production');
+  }
   const PgStore = connectPgSimple(session);
   const store = new PgStore({
     pool: poolOf(deps.dataSource),

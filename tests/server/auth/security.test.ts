@@ -127,3 +127,16 @@ describe('hardening', () => {
     });
   });
 });
+
+describe('production configuration', () => {
+  it('refuses to build the app in production with the public default session secret', async () => {
+    const db = await createTestDatabase();
+    try {
+      await expect(buildTestApp({ dataSource: db.dataSource, env: { NODE_ENV: 'production', SESSION_SECRET: 'pointfold-development-secret-change-me' } })).rejects.toThrow(
+        'SESSION_SECRET must be set to a private random value in production',
+      );
+    } finally {
+      await db.drop();
+    }
+  });
+});
