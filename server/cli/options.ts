@@ -19,6 +19,10 @@ export function parseCommandArgs<T extends NonNullable<ParseArgsConfig['options'
   } catch (e) {
     const msg = (e as Error).message.split('\n')[0];
     const unknown = /Unknown option '([^']+)'/.exec(msg);
+    const ambiguous = /Option '([^']+)' argument is ambiguous/.exec(msg);
+    if (ambiguous) throw new UsageError(`pointfold ${command}: write a value that starts with '-' as ${ambiguous[1]}=VALUE`);
+    const missing = /Option '([^']+?)(?: <value>)?' argument missing/.exec(msg);
+    if (missing) throw new UsageError(`pointfold ${command}: ${missing[1].replace(/^-\w, /, '')} needs a value`);
     throw new UsageError(unknown ? `pointfold ${command}: unknown option '${unknown[1]}' (see pointfold ${command} --help)` : `pointfold ${command}: ${msg}`);
   }
 }
