@@ -37,8 +37,7 @@ export const routes: RouteObject[] = [
               { index: true, lazy: () => import('@/features/batches/route') },
               { path: 'new', lazy: () => import('@/features/new-batch/route') },
               { path: 'batches/:batchId', lazy: () => import('@/features/batch/route') },
-              // TODO(web B): uncomment when src/features/structure/route.tsx lands (exports loader + Component).
-              // { path: 'structures/:structureId', lazy: () => import('@/features/structure/route') },
+              { path: 'structures/:structureId', lazy: () => import('@/features/structure/route') },
               { path: 'settings', lazy: () => import('@/features/settings/route') },
               { path: '*', Component: NotFoundPage },
             ],

@@ -15,6 +15,7 @@ export const batchPreviewSchema = z.object({
       z.object({
         name: z.string(),
         format: z.string().nullable().optional(),
+        bytes: z.number().int().optional(),
         frames: z.number().int().optional(),
         structures: z.number().int().optional(),
       }),
@@ -22,6 +23,7 @@ export const batchPreviewSchema = z.object({
     .default([]),
   formats: z.record(z.string(), z.number()).optional(),
   frames: z.number().int().optional(),
+  atoms: z.number().int().optional(),
   structures: z
     .union([
       z.number().int(),
@@ -40,6 +42,7 @@ export const batchPreviewSchema = z.object({
     .array(
       z.object({
         file: z.string().optional(),
+        /** 0-based index of the frame in its file. */
         frame: z.number().int().nullable().optional(),
         line: z.number().int().nullable().optional(),
         message: z.string(),

@@ -21,6 +21,12 @@ export function PreviewPanel({ preview, pending, error }: { preview: BatchPrevie
         <span className="num text-ink">{formatCount(structures)}</span> {structures === 1 ? 'structure' : 'structures'} in{' '}
         <span className="num text-ink">{formatCount(frames)}</span> {frames === 1 ? 'frame' : 'frames'}
         {preview.files.length > 0 && <> from {plural(preview.files.length, 'file')}</>}
+        {preview.atoms !== undefined && (
+          <>
+            {' '}
+            · <span className="num text-ink">{formatCount(preview.atoms)}</span> atoms
+          </>
+        )}
       </p>
       {Object.keys(formats).length > 0 && (
         <ul aria-label="Formats" className="mt-2 flex flex-wrap gap-1.5">
@@ -39,7 +45,7 @@ export function PreviewPanel({ preview, pending, error }: { preview: BatchPrevie
           <ul className="mt-1 max-h-48 list-disc overflow-auto pl-5 text-ink">
             {preview.errors.map((e, i) => (
               <li key={i}>
-                {[e.file, e.frame != null ? `frame ${e.frame}` : null, e.line != null ? `line ${e.line}` : null].filter(Boolean).join(', ')}
+                {[e.file, e.frame != null ? `frame ${e.frame + 1}` : null, e.line != null ? `line ${e.line}` : null].filter(Boolean).join(', ')}
                 {e.file ? ': ' : ''}
                 {e.message}
               </li>
