@@ -12,13 +12,15 @@
  *
  * Structures: a reference molecule of that group (reference-molecules.md, builders in
  * molecules.ts), or, for groups with none, the orbit of two generic points under the group's
- * generators (orbit-structures.ts; proved to have no extra symmetry below).
+ * generators (orbit-structures.ts; proved to have no extra symmetry below). Snapping to the
+ * computational subgroup on request is checked against the same column.
  */
 import { describe, expect, it } from 'vitest';
 import { groupOrder, isKnownGroup, snap } from '@shared/engine';
 import type { StructureResult } from '@shared/contracts/structure';
 import { type Atom, type Mat3, asInput, matMul, perturb, transpose } from './geometry';
 import { standardGroups } from './frames';
+import { frameProblems } from './frame-check';
 import { GROUP_FACTS, rotationalSymmetryNumber } from './group-facts';
 import { referenceMolecule } from './molecules';
 import { extraSymmetry, orbitStructure } from './orbit-structures';
@@ -107,6 +109,20 @@ describe.each(GROUP_FACTS.map((f) => [f.group, f] as const))('group %s (group-fa
       const proper = r.operations.filter((o) => o.kind === 'identity' || o.kind === 'rotation').length;
       expect(proper).toBe(rotationalSymmetryNumber(fact));
     }
+  });
+
+  it('snaps to its computational subgroup on request: exact, in that group’s standard frame, moving atoms no more than the full group', () => {
+    const full = result();
+    const sub = snap(asInput(`${group}: ${s.source}`, perturb(s.atoms, 500 + fact.order, 0.001).atoms, s.charge), {
+      target: { kind: 'computational' },
+    });
+    expect(sub.pointGroup).toBe(full.computationalSubgroup);
+    expect(sub.perceivedGroup).toBe(group);
+    expect(sub.symmetryRmsdAfter).toBeLessThanOrEqual(1e-10);
+    expect(frameProblems(sub.atoms, sub.pointGroup)).toEqual([]);
+    // Projecting onto a subgroup's (larger) invariant subspace cannot move atoms farther
+    // (methods.md (a)); 1e-6 Å allows for the separately fitted frames.
+    expect(sub.displacementRmsd).toBeLessThanOrEqual(full.displacementRmsd + 1e-6);
   });
 
   if (fact.classes !== null) {

@@ -95,7 +95,7 @@ describe.each(REFERENCE_MOLECULES.map((m) => [label(m), m] as const))('%s', (nam
 
   it('lands on the same coordinates from another orientation and atom order', () => {
     const other = snap(asInput(m.name, reorient(noisy.atoms, 7000 + m.id), m.charge), { tolerance: NOISY_TOLERANCE });
-    expect(setDistance(snapped().atoms, other.atoms, 1e-6)).toBeLessThanOrEqual(1e-6);
+    expect(setDistance(snapped().atoms, other.atoms, 1e-9)).toBeLessThanOrEqual(1e-9);
   });
 
   it(`recovers ${m.pointGroup} at the default tolerance with ±0.001 Å noise`, () => {
