@@ -1,7 +1,6 @@
 import { spawn } from 'node:child_process';
-import { createWriteStream, mkdirSync, readFileSync, rmSync, writeFileSync, type WriteStream } from 'node:fs';
+import { closeSync, mkdirSync, openSync, readFileSync, readSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { createInterface } from 'node:readline';
 import { commandLineOf, isProcessAlive, waitFor } from './util';
 
 const levelNames: Record<number, string> = { 10: 'trace', 20: 'debug', 30: 'info', 40: 'warn', 50: 'ERROR', 60: 'FATAL' };
@@ -25,12 +24,11 @@ export function formatLogLine(line: string): string {
   }
 }
 
-/** Where a child's output goes: the terminal (prefixed with its name) or a log file. */
-export type OutputSink = { kind: 'console' } | { kind: 'file'; path: string };
-
 export interface ManagedProcess {
   name: string;
   pid: number;
+  /** The entry point it runs (recorded to tell it from a recycled pid). */
+  script: string;
   /** Resolves when the process has exited. */
   exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
   /** The last lines it printed (for error messages). */
@@ -40,55 +38,82 @@ export interface ManagedProcess {
 }
 
 /**
- * Runs a TypeScript entry point as `node --import tsx FILE` in its own process group (so the
- * whole tree can be signalled, and Ctrl-C reaches it only through us). The child learns our pid
- * through PF_PARENT_PID and exits by itself if we die without stopping it.
+ * Follows a growing log file, handing each complete new line to `onLine`. Polling (not
+ * fs.watch) keeps it simple and reliable on every file system.
  */
-export function spawnManaged(opts: {
-  name: string;
-  script: string;
-  cwd: string;
-  env: NodeJS.ProcessEnv;
-  output: OutputSink;
-}): ManagedProcess {
+function followFile(path: string, onLine: (line: string) => void): { flush(): void; close(): void } {
+  let offset = 0;
+  let partial = '';
+  const buffer = Buffer.alloc(64 * 1024);
+  const fd = openSync(path, 'r');
+  const flush = () => {
+    for (;;) {
+      const n = readSync(fd, buffer, 0, buffer.length, offset);
+      if (n <= 0) break;
+      offset += n;
+      const lines = (partial + buffer.toString('utf8', 0, n)).split('\n');
+      partial = lines.pop() ?? '';
+      for (const line of lines) onLine(line);
+    }
+  };
+  const timer = setInterval(flush, 150);
+  timer.unref();
+  return {
+    flush,
+    close() {
+      clearInterval(timer);
+      flush();
+      if (partial) onLine(partial);
+      closeSync(fd);
+    },
+  };
+}
+
+/**
+ * Runs a TypeScript entry point as `node --import tsx FILE` in its own process group (so the
+ * whole tree can be signalled, and Ctrl-C reaches it only through us). Its output goes to
+ * `logFile`, which we follow and, with `echo`, print prefixed with its name: a file, unlike a
+ * pipe, never blocks the child's writes when we are gone. The child learns our pid through
+ * PF_PARENT_PID and exits by itself if we die without stopping it.
+ */
+export function spawnManaged(opts: { name: string; script: string; cwd: string; env: NodeJS.ProcessEnv; logFile: string; echo: boolean }): ManagedProcess {
+  mkdirSync(dirname(opts.logFile), { recursive: true });
+  const out = openSync(opts.logFile, 'w');
   const child = spawn(process.execPath, ['--import', 'tsx', opts.script], {
     cwd: opts.cwd,
     env: { ...opts.env, PF_PARENT_PID: String(process.pid) },
     detached: true,
-    stdio: ['ignore', 'pipe', 'pipe'],
+    stdio: ['ignore', out, out],
   });
+  closeSync(out);
   const recent: string[] = [];
-  let file: WriteStream | undefined;
-  if (opts.output.kind === 'file') {
-    mkdirSync(dirname(opts.output.path), { recursive: true });
-    file = createWriteStream(opts.output.path, { flags: 'a' });
-  }
   const prefix = `[${opts.name}]`.padEnd(9);
-  for (const stream of [child.stdout, child.stderr]) {
-    createInterface({ input: stream }).on('line', (line) => {
-      recent.push(line);
-      if (recent.length > 40) recent.shift();
-      if (file) file.write(`${line}\n`);
-      else process.stdout.write(`${prefix} ${formatLogLine(line)}\n`);
-    });
-  }
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => {
-    child.once('exit', (code, signal) => {
-      file?.end();
-      resolve({ code, signal });
-    });
-    child.once('error', () => resolve({ code: 1, signal: null }));
+  const follower = followFile(opts.logFile, (line) => {
+    recent.push(line);
+    if (recent.length > 40) recent.shift();
+    if (opts.echo) process.stdout.write(`${prefix} ${formatLogLine(line)}\n`);
   });
   let exitedYet = false;
-  void exited.then(() => {
-    exitedYet = true;
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => {
+    const done = (code: number | null, signal: NodeJS.Signals | null) => {
+      if (exitedYet) return;
+      exitedYet = true;
+      follower.close();
+      resolve({ code, signal });
+    };
+    child.once('exit', done);
+    child.once('error', () => done(1, null));
   });
   const pid = child.pid ?? -1;
   return {
     name: opts.name,
     pid,
+    script: opts.script,
     exited,
-    tail: () => recent.slice(),
+    tail: () => {
+      follower.flush();
+      return recent.slice();
+    },
     async stop(deadlineMs = 12_000) {
       if (exitedYet || pid <= 0) return;
       signalGroup(pid, 'SIGTERM');

@@ -51,7 +51,7 @@ export interface StackOptions {
   throwaway: boolean;
   /** Extra environment for the API, worker and fakes (NODE_ENV, QUEUE_PREFIX, LOG_LEVEL, …). */
   env: NodeJS.ProcessEnv;
-  /** 'console': child output prefixed in the terminal; 'files': into stateDir/logs/*.log. */
+  /** Child output always goes to stateDir/logs/<name>.log; 'console' also prints it, prefixed. */
   output: 'console' | 'files';
   log: (line: string) => void;
 }
@@ -125,10 +125,11 @@ export function createStack(opts: StackOptions): Stack {
       script,
       cwd: repoRoot,
       env: childEnv(),
-      output: opts.output === 'console' ? { kind: 'console' } : { kind: 'file', path: join(opts.dirs.stateDir, 'logs', `${name}.log`) },
+      logFile: join(opts.dirs.stateDir, 'logs', `${name}.log`),
+      echo: opts.output === 'console',
     });
     children.push(child);
-    writeChildRecords(recordFile, children.map((c) => ({ name: c.name, pid: c.pid, marker: script })));
+    writeChildRecords(recordFile, children.map((c) => ({ name: c.name, pid: c.pid, marker: c.script })));
     void child.exited.then(({ code, signal }) => {
       if (!stopping) reportCrash(`the ${name} process exited on its own (${signal ?? `code ${code}`}): ${lastWords(child.tail())}`);
     });
@@ -148,8 +149,7 @@ export function createStack(opts: StackOptions): Stack {
     }
   };
 
-  const logHint = (name: string) =>
-    opts.output === 'files' ? `see ${relative(process.cwd(), join(opts.dirs.stateDir, 'logs', `${name}.log`))}` : 'see its output above';
+  const logHint = (name: string) => `its log is ${relative(process.cwd(), join(opts.dirs.stateDir, 'logs', `${name}.log`))}`;
 
   async function start(): Promise<StackUrls> {
     const appPorts = [
