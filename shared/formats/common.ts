@@ -90,6 +90,7 @@ export class LineReader {
     } else {
       nextPos = end + 1;
     }
+    this.prevPos = this.pos;
     let line = text.slice(this.pos, end);
     if (line.endsWith('\r')) line = line.slice(0, -1);
     // A lone CR (old Mac files) inside what LF splitting took as one line: split there.
@@ -103,6 +104,8 @@ export class LineReader {
     return line;
   }
 
+  private prevPos = 0;
+
   /** The next line without consuming it. */
   peek(): string | null {
     const pos = this.pos;
@@ -111,6 +114,12 @@ export class LineReader {
     this.pos = pos;
     this.lineNo = lineNo;
     return line;
+  }
+
+  /** Un-read the line most recently returned by {@link next} (once; cheaper than peek + next). */
+  back(): void {
+    this.pos = this.prevPos;
+    this.lineNo--;
   }
 
   /** Skip up to n lines; returns how many were skipped. */
@@ -127,7 +136,8 @@ export class LineReader {
   }
 }
 
-const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const FORTRAN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)[dD][+-]?\d+$/;
 
 /**
  * Parse a decimal number strictly (no hex, no empty string → 0); Fortran `D` exponents accepted.
@@ -135,7 +145,8 @@ const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
  */
 export function parseNumber(token: string): number | null {
   const t = token.trim();
-  if (NUMBER.test(t)) return Number(t.replace(/[dD]/, 'e'));
+  if (NUMBER.test(t)) return Number(t);
+  if (FORTRAN_NUMBER.test(t)) return Number(t.replace(/[dD]/, 'e'));
   if (/^[+-]?(nan|inf|infinity)$/i.test(t)) return Number.NaN;
   return null;
 }

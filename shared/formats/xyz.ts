@@ -164,13 +164,13 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
     const atoms: AtomJson[] = [];
     let found = 0;
     while (found < count) {
-      const next = r.peek();
+      const next = r.next();
       if (next === null || COUNT_LINE.test(next) || next.trim() === '') {
-        firstError = new FrameError(r.lineNo + 1, `expected ${count} atom lines, found ${found}`);
-        if (next !== null && next.trim() === '') r.next();
+        // A blank line is consumed; a count line is left for the next frame.
+        if (next !== null && next.trim() !== '') r.back();
+        firstError = new FrameError(next === null || next.trim() !== '' ? r.lineNo + 1 : r.lineNo, `expected ${count} atom lines, found ${found}`);
         break;
       }
-      r.next();
       found++;
       if (firstError) continue;
       try {
