@@ -25,7 +25,7 @@ export interface Analysis {
   /** Inversion pairing and its residual (Å), if every atom has a partner within the loose tolerance. */
   readonly inversionPerm: Int32Array | null;
   readonly inversionResidual: number;
-  readonly cache: Map<number, FoundGroup>;
+  readonly cache: Map<string, FoundGroup>;
 }
 
 /** The group perceived at one tolerance. */
@@ -33,6 +33,7 @@ export interface FoundGroup {
   readonly name: string;
   /** |G|, 0 for C∞v, D∞h and Kh. */
   readonly order: number;
+  /** A tolerance at which this group is perceived (the first one it was computed for). */
   readonly tolerance: number;
   /** Elements (identity first) for finite groups; empty for the infinite ones. */
   readonly elements: readonly SymOp[];
@@ -73,10 +74,16 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
  * out and `notClosed` is set.
  */
 export function groupAt(a: Analysis, t: number): FoundGroup {
-  const hit = a.cache.get(t);
+  // The result depends on t only through the set of stored operations with residual ≤ t (a
+  // prefix of them by residual, so its size identifies it) and the two linear tests; while the
+  // store does not grow, equal keys give equal groups.
+  let count = 0;
+  for (const op of a.store.byKey.values()) if (op.residual <= t) count++;
+  const key = `${count}:${a.store.byKey.size}:${a.lineResidual <= t}:${a.inversionResidual <= t}`;
+  const hit = a.cache.get(key);
   if (hit) return hit;
   const found = computeGroupAt(a, t);
-  a.cache.set(t, found);
+  a.cache.set(key, found);
   return found;
 }
 

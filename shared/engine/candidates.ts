@@ -26,7 +26,7 @@ import { addOperation, refineOperation, type OpStore } from './op-store';
  * - axes that can carry Cₙ (n ≥ 3) or Sₙ: the molecular principal axes of inertia, the principal
  *   axes of small shells, and directions of reference atoms; the possible orders n come from
  *   the ring sizes around the axis (n divides every ring of off-axis atoms);
- * - C₂ axes and mirror planes from one non-axial shell with reference atoms r₀, r₁, r₂: a C₂
+ * - C₂ axes and mirror planes from the smallest non-axial shell with reference atoms r₀, r₁: a C₂
  *   sending r₀ to r_j has its axis along r₀ + r_j (or ⊥ r₀ when r_j = −r₀, then found from r₁
  *   or from r₀ × r₁); a mirror sending r₀ to r_j has normal r₀ − r_j (or contains r₀ …);
  * - for cubic and icosahedral structures, C₃/C₄/C₅ axes placed relative to each triple of
@@ -40,7 +40,7 @@ export function generateCandidates(store: OpStore): void {
   const { y, n } = mol;
   if (n < 2) return;
   const probe = probeAtoms(store);
-  const tested = new Set<string>();
+  const tested = new Set<number>();
   const perm = new Int32Array(n);
   const images = new Int32Array(probe.length);
 
@@ -55,9 +55,11 @@ export function generateCandidates(store: OpStore): void {
     addOperation(store, op);
     return true;
   };
-  const once = (tag: string, d: Vec3): boolean => {
+  // Each (operation type, direction) is tried once; directions within ~5e-4 rad count as equal.
+  const once = (tag: number, d: Vec3): boolean => {
     const c = canonicalDirection(d);
-    const k = `${tag}:${Math.round(c[0] * 2000)},${Math.round(c[1] * 2000)},${Math.round(c[2] * 2000)}`;
+    const q = (v: number) => Math.round(v * 2000) + 2000;
+    const k = ((tag * 4001 + q(c[0])) * 4001 + q(c[1])) * 4001 + q(c[2]);
     if (tested.has(k)) return false;
     tested.add(k);
     return true;
@@ -65,14 +67,14 @@ export function generateCandidates(store: OpStore): void {
   const testAxis = (d: Vec3 | null, orders: readonly number[]) => {
     if (!d) return;
     for (const order of orders) {
-      if (!once(`C${order}`, d)) continue;
-      if (tryMatrix(rotation3(d, (2 * Math.PI) / order), 1) && once(`S${2 * order}`, d)) {
+      if (!once(order, d)) continue;
+      if (tryMatrix(rotation3(d, (2 * Math.PI) / order), 1) && once(100 + order, d)) {
         tryMatrix(improper3(d, Math.PI / order), -1);
       }
     }
   };
   const testMirror = (d: Vec3 | null) => {
-    if (d && once('s', d)) tryMatrix(reflection3(d), -1);
+    if (d && once(0, d)) tryMatrix(reflection3(d), -1);
   };
 
   tryMatrix(inversion3(), -1);
@@ -80,15 +82,15 @@ export function generateCandidates(store: OpStore): void {
   const shells = buildShells(store);
   const highOrderAxes: Vec3[] = principalAxes(y, mol.masses).axes;
   const pairShells: number[][] = [];
+  // Shells from the smallest: axial ones only add directions; the first non-axial shell (and a
+  // second one when the first has at most 3 atoms) supplies the pair-derived candidates.
   for (const shell of shells) {
-    if (pairShells.length > 0 && shell.length > 2 * pairShells[0].length) break;
     const r0 = atomVector(y, shell[0]);
     if (normalize3(r0, tol) === null) continue; // atom at the centre
     highOrderAxes.push(r0);
     if (shell.length >= 3) highOrderAxes.push(...principalAxes(y, null, shell).axes);
-    const refs = referenceAtoms(y, shell, tol);
-    if (refs.length >= 2) pairShells.push(shell);
-    if (pairShells.length >= 2 || highOrderAxes.length > 40) break;
+    if (referenceAtoms(y, shell, tol).length >= 2) pairShells.push(shell);
+    if ((pairShells.length >= 1 && pairShells[0].length > 3) || pairShells.length >= 2 || highOrderAxes.length > 40) break;
   }
 
   const ringAtoms = n <= 4000 ? null : shells.slice(0, 8).flat();
@@ -100,18 +102,19 @@ export function generateCandidates(store: OpStore): void {
   }
   for (const shell of pairShells) {
     const refs = referenceAtoms(y, shell, tol);
-    for (const r of refs) {
+    refs.forEach((r, k) => {
       const ri = atomVector(y, r);
       for (const j of shell) {
         const rj = atomVector(y, j);
-        const sum = normalize3([ri[0] + rj[0], ri[1] + rj[1], ri[2] + rj[2]], tol);
-        testAxis(sum, [2]);
+        testAxis(normalize3([ri[0] + rj[0], ri[1] + rj[1], ri[2] + rj[2]], tol), [2]);
         if (j !== r) testMirror(normalize3([ri[0] - rj[0], ri[1] - rj[1], ri[2] - rj[2]], tol));
-        const c = normalize3(cross3(ri, rj), tol * tol);
-        testAxis(c, [2]);
-        testMirror(c);
+        if (k === 0) {
+          const c = normalize3(cross3(ri, rj), tol * tol);
+          testAxis(c, [2]);
+          testMirror(c);
+        }
       }
-    }
+    });
   }
   augmentCubic(store, testAxis);
 }
@@ -170,7 +173,11 @@ function buildShells(store: OpStore): number[][] {
   return shells.sort((a, b) => a.length - b.length || rad(b) - rad(a) || a[0] - b[0]);
 }
 
-/** Up to three atoms of a shell spanning it: the first, the farthest from its line, the farthest from their plane. */
+/**
+ * Two atoms of a shell not on one line through the centre: the first, and the one farthest from
+ * its line (just the first when the shell is axial). Two suffice: a C₂ (mirror) that sends both
+ * to their antipodes (keeps both) has its axis (normal) along r₀ × r₁, which is tried.
+ */
 function referenceAtoms(y: Float64Array, shell: readonly number[], tol: number): number[] {
   const r0 = atomVector(y, shell[0]);
   const u = normalize3(r0);
@@ -184,18 +191,7 @@ function referenceAtoms(y: Float64Array, shell: readonly number[], tol: number):
       i1 = j;
     }
   }
-  if (i1 < 0) return [shell[0]];
-  const w = normalize3(cross3(r0, atomVector(y, i1)))!;
-  let i2 = -1;
-  best = 2 * tol;
-  for (const j of shell) {
-    const d = Math.abs(dot3(w, atomVector(y, j)));
-    if (d > best) {
-      best = d;
-      i2 = j;
-    }
-  }
-  return i2 >= 0 ? [shell[0], i1, i2] : [shell[0], i1];
+  return i1 < 0 ? [shell[0]] : [shell[0], i1];
 }
 
 /** Largest rotation order tested about one axis. */

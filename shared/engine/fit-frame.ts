@@ -34,9 +34,10 @@ export interface FrameFit {
  * Fits the group found at some tolerance. Finite groups: an isomorphism from the canonical group
  * is found by mapping the canonical generators onto found operations of the same type and
  * extending along the canonical group's spanning tree; it must be a homomorphism (checked on
- * every element × generator — methods.md (a) requires π_{gh} = π_g∘π_h). Among the valid maps the
- * one whose frame (Procrustes fit of the generator axes) best reproduces all found matrices is
- * kept. The frame is then refined by alternating projection and Procrustes rotation, which
+ * every element × generator — methods.md (a) requires π_{gh} = π_g∘π_h) and must map every
+ * element onto one of the same type. The first such map whose frame (Procrustes fit of the
+ * generator axes) reproduces all found matrices within a Frobenius distance of 0.5 is kept
+ * (otherwise the best one). The frame is then refined by alternating projection and Procrustes rotation, which
  * minimises ‖Y − P_Q Y‖ (each step cannot increase it).
  * Linear groups: the best line through the centre; D∞h pairs atoms through the centre.
  */
@@ -89,10 +90,12 @@ export function fitFinite(
   const search = (k: number): boolean => {
     if (k === gens.length) {
       const images = extend(ideal, pick, byKey, compose, identity);
-      if (!images) return false;
+      if (!images || images.some((e, i) => e.sig !== ideal.elements[i].sig)) return false;
       const { Q, error } = frameFromImages(ideal, images);
       if (!best || error < best.error - 1e-12) best = { images, Q, error };
-      return best.error < 1e-9;
+      // Type-preserving isomorphisms differ by rotations of the frame; the first whose matrices
+      // agree with the found ones (Frobenius distance < 0.5 each) is as good as any.
+      return best.error < 0.5;
     }
     for (const c of choices[k]) {
       pick[k] = c;
@@ -109,8 +112,9 @@ export function fitFinite(
   let Z = toFrame(y, Q);
   let W = projectOntoGroup(Z, mats, perms);
   if (hasAxes(ideal)) {
+    // Alternating minimisation converges linearly; stop once a step gains < 1e-8 of the cost.
     let cost = sqDist(Z, W);
-    for (let it = 0; it < 40 && cost > 0; it++) {
+    for (let it = 0; it < 25 && cost > 0; it++) {
       const R = rotationFromCorrelation(correlation(y, W));
       const Qn = transpose3(R);
       const Zn = toFrame(y, Qn);
@@ -122,7 +126,7 @@ export function fitFinite(
       Z = Zn;
       W = Wn;
       cost = cn;
-      if (gain <= 1e-13 * cost + 1e-28) break;
+      if (gain <= 1e-8 * cost + 1e-28) break;
     }
   }
   const residuals = ideal.elements.map((e, k) => residualWithPermutation(y, mul3(mul3(Q, e.matrix), transpose3(Q)), perms[k]));

@@ -74,8 +74,19 @@ interface NameParts {
   n: number;
 }
 
+const familyCache = new Map<string, NameParts>();
+
 /** Family and n of a canonical name. @throws EngineError('unknown-group'). */
 export function groupFamily(name: string): NameParts {
+  let f = familyCache.get(name);
+  if (!f) {
+    f = computeFamily(name);
+    familyCache.set(name, f);
+  }
+  return f;
+}
+
+function computeFamily(name: string): NameParts {
   if (!isKnownGroup(name)) throw new EngineError('unknown-group', `'${name}' is not a point group name`);
   if (name === 'C∞v' || name === 'D∞h') return { family: 'linear', n: 0 };
   if (['C1', 'Cs', 'Ci', 'T', 'Td', 'Th', 'O', 'Oh', 'I', 'Ih', 'Kh'].includes(name)) {

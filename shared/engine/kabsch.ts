@@ -1,5 +1,5 @@
 import type { Mat3 } from './mat3';
-import { symmetricEigen } from './symmetric-eigen';
+import { topEigenvector } from './symmetric-eigen';
 
 /**
  * Optimal superposition (orthogonal Procrustes). The rotation is found with Horn's unit-quaternion
@@ -53,8 +53,9 @@ export function rotationFromCorrelation(s: readonly number[]): Mat3 {
     szx - sxz, sxy + syx, -sxx + syy - szz, syz + szy,
     sxy - syx, szx + sxz, syz + szy, -sxx - syy + szz,
   ];
-  const { vectors } = symmetricEigen(n, 4);
-  const [q0, q1, q2, q3] = vectors[3];
+  const q = [0, 0, 0, 0];
+  topEigenvector(n, 4, q);
+  const [q0, q1, q2, q3] = q;
   return [
     q0 * q0 + q1 * q1 - q2 * q2 - q3 * q3, 2 * (q1 * q2 - q0 * q3), 2 * (q1 * q3 + q0 * q2),
     2 * (q1 * q2 + q0 * q3), q0 * q0 - q1 * q1 + q2 * q2 - q3 * q3, 2 * (q2 * q3 - q0 * q1),

@@ -1,8 +1,9 @@
 /**
  * A uniform spatial hash for "nearest atom of the same element within r" queries: O(1) per query
  * for molecular densities, so testing one symmetry operation on N atoms costs O(N), never O(N²).
- * Cells are cubes of edge `cell` (Å); a query of radius ≤ cell looks at the 27 cells around the
- * point. The table is open-addressed on typed arrays (no per-cell objects).
+ * Cells are cubes of edge `cell` (Å). A nearest-atom query of radius r ≤ cell visits only the
+ * cells overlapping the box [p − r, p + r] (at most 8 when r ≤ cell/2); the pair scan visits
+ * the 27 cells around each atom. The table is open-addressed on typed arrays.
  */
 export interface NeighbourGrid {
   readonly cell: number;
@@ -83,18 +84,18 @@ export function nearestOfKind(
   out?: Float64Array,
 ): number {
   const inv = 1 / g.cell;
-  const cx = Math.floor(x * inv);
-  const cy = Math.floor(y * inv);
-  const cz = Math.floor(z * inv);
+  const x0 = Math.floor((x - radius) * inv);
+  const x1 = Math.floor((x + radius) * inv);
+  const y0 = Math.floor((y - radius) * inv);
+  const y1 = Math.floor((y + radius) * inv);
+  const z0 = Math.floor((z - radius) * inv);
+  const z1 = Math.floor((z + radius) * inv);
   let best = -1;
   let bestD2 = radius * radius;
   const { coords, kinds, atoms, slotStart, slotEnd, slotX, slotY, slotZ, mask } = g;
-  for (let dx = -1; dx <= 1; dx++) {
-    for (let dy = -1; dy <= 1; dy++) {
-      for (let dz = -1; dz <= 1; dz++) {
-        const ix = cx + dx;
-        const iy = cy + dy;
-        const iz = cz + dz;
+  for (let ix = x0; ix <= x1; ix++) {
+    for (let iy = y0; iy <= y1; iy++) {
+      for (let iz = z0; iz <= z1; iz++) {
         let h = hash(ix, iy, iz, mask);
         while (slotStart[h] !== EMPTY && (slotX[h] !== ix || slotY[h] !== iy || slotZ[h] !== iz)) h = (h + 1) & mask;
         if (slotStart[h] === EMPTY) continue;

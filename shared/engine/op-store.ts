@@ -3,6 +3,8 @@ import { buildNeighbourGrid } from './neighbour-grid';
 import {
   fitElement,
   matchOperation,
+  permutationOrder,
+  regularize,
   residualWithPermutation,
   typeSignature,
   type MatchContext,
@@ -72,12 +74,12 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
       a2 = i;
     }
   }
-  const grid = buildNeighbourGrid(y, mol.kinds, tol);
+  const grid = buildNeighbourGrid(y, mol.kinds, 2 * tol);
   const perm = new Int32Array(n);
   for (let i = 0; i < n; i++) perm[i] = i;
   const store: OpStore = {
     mol,
-    ctx: { y, kinds: mol.kinds, grid },
+    ctx: { y, kinds: mol.kinds, grid, used: new Uint8Array(n) },
     tol,
     a1,
     a2,
@@ -149,8 +151,8 @@ export function addOperation(store: OpStore, op: SymOp): SymOp {
 }
 
 /**
- * g∘h as a stored operation. When it is not yet known its permutation is composed and an exact
- * element fitted to it; its residual is measured with that composed permutation (so the found
+ * g∘h as a stored operation. When it is not yet known its permutation is composed and the
+ * matrix product snapped to an exact element of the permutation's order; its residual is measured with that composed permutation (so the found
  * operations always multiply like their permutations). An impossible product is stored with
  * residual Infinity so that it is computed once.
  */
@@ -162,7 +164,10 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const perm = new Int32Array(n);
   for (let i = 0; i < n; i++) perm[i] = g.perm[h.perm[i]];
   const det = (g.det * h.det) as 1 | -1;
-  const fit = fitElement(store.mol.y, perm, det);
+  // The product of two fitted elements is already close to the best fit: snap its angle only.
+  let order = permutationOrder(perm, 256);
+  if (det === -1 && order % 2 === 1) order *= 2;
+  const fit = order > 0 && order <= 256 ? regularize(mul3(g.matrix, h.matrix), det, order) : null;
   const op: SymOp = fit
     ? {
         ...fit.type,

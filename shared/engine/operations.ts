@@ -106,6 +106,8 @@ export interface MatchContext {
   readonly y: Float64Array;
   readonly kinds: Int32Array;
   readonly grid: NeighbourGrid;
+  /** Scratch: one flag per atom, reused by {@link matchOperation}. */
+  readonly used: Uint8Array;
 }
 
 const scratch = new Float64Array(1);
@@ -119,7 +121,8 @@ const scratch = new Float64Array(1);
 export function matchOperation(ctx: MatchContext, m: Mat3, tol: number, perm: Int32Array): number {
   const { y, kinds, grid } = ctx;
   const n = kinds.length;
-  const used = new Uint8Array(n);
+  const used = ctx.used;
+  used.fill(0);
   let worst = 0;
   for (let i = 0; i < n; i++) {
     const x = y[3 * i];

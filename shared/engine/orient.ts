@@ -35,8 +35,13 @@ const C2X: Mat3 = [1, 0, 0, 0, -1, 0, 0, 0, -1];
  *    values within 1e-6 Å equal), and compares the (z, x, y) triples in that order — so the
  *    heaviest atoms go to +z first, then to +x.
  */
-export function standardOrientation(name: string, W: Float64Array, mol: PreparedMolecule): Mat3 {
-  const candidates = candidateRotations(name, W, mol);
+export function standardOrientation(
+  name: string,
+  W: Float64Array,
+  mol: PreparedMolecule,
+  orbitOf: Int32Array,
+): Mat3 {
+  const candidates = candidateRotations(name, W, mol, orbitOf);
   if (candidates.length === 1) return candidates[0];
   let pool = candidates;
   const fam = name === 'C∞v' || name === 'D∞h' || name === 'Kh' ? null : groupFamily(name);
@@ -49,9 +54,13 @@ function rz(angle: number): Mat3 {
   return rotation3([0, 0, 1], angle);
 }
 
-function candidateRotations(name: string, W: Float64Array, mol: PreparedMolecule): Mat3[] {
-  if (name === 'Kh') return [identity3()];
-  if (name === 'C∞v' || name === 'D∞h') return [identity3(), C2X];
+/**
+ * Candidate rotations, one per class of frames that are not related by a proper operation of
+ * the group (those give the same points, so trying them would only cost time).
+ */
+function candidateRotations(name: string, W: Float64Array, mol: PreparedMolecule, orbitOf: Int32Array): Mat3[] {
+  if (name === 'Kh' || name === 'D∞h') return [identity3()];
+  if (name === 'C∞v') return [identity3(), C2X];
   const { family, n } = groupFamily(name);
   const withFlip = (list: Mat3[]) => list.flatMap((s) => [s, mul3(C2X, s)]);
   switch (family) {
@@ -62,13 +71,16 @@ function candidateRotations(name: string, W: Float64Array, mol: PreparedMolecule
     case 'Cn':
     case 'Cnh':
     case 'S2n':
-      return withFlip(referenceAtomRotations(W, mol));
+      return withFlip(referenceAtomRotations(W, mol, orbitOf));
     case 'Cnv':
+      // Rz(2πk/n) belong to the group; Rz(π/n) swaps the two mirror classes (even n); C2x flips z.
+      return withFlip([identity3(), rz(Math.PI / n)]);
+    case 'Dn':
     case 'Dnh':
     case 'Dnd':
-    case 'Dn':
-      if (name === 'D2' || name === 'D2h') return cubeRotations();
-      return withFlip(Array.from({ length: 2 * n }, (_, k) => rz((k * Math.PI) / n)));
+      if (name === 'D2' || name === 'D2h') return axisPermutations();
+      // C2x and Rz(2πk/n) are in the group; Rz(π/n) maps the C2′ set onto itself.
+      return [identity3(), rz(Math.PI / n)];
     case 'T':
     case 'Td':
     case 'Th':
@@ -78,31 +90,24 @@ function candidateRotations(name: string, W: Float64Array, mol: PreparedMolecule
   }
 }
 
-/** The 24 proper rotations permuting the coordinate axes (with signs). */
-function cubeRotations(): Mat3[] {
-  const out: Mat3[] = [];
-  const perms = [
-    [0, 1, 2],
-    [1, 2, 0],
-    [2, 0, 1],
-    [0, 2, 1],
-    [2, 1, 0],
-    [1, 0, 2],
+/** The 6 proper rotations taking the coordinate axes to each ordering of themselves (one per coset of D2). */
+function axisPermutations(): Mat3[] {
+  return [
+    [1, 0, 0, 0, 1, 0, 0, 0, 1],
+    [0, 1, 0, 0, 0, 1, 1, 0, 0],
+    [0, 0, 1, 1, 0, 0, 0, 1, 0],
+    [-1, 0, 0, 0, 0, 1, 0, 1, 0],
+    [0, 0, 1, 0, -1, 0, 1, 0, 0],
+    [0, 1, 0, 1, 0, 0, 0, 0, -1],
   ];
-  for (const p of perms) {
-    for (let s = 0; s < 8; s++) {
-      const m = [0, 0, 0, 0, 0, 0, 0, 0, 0];
-      for (let r = 0; r < 3; r++) m[3 * r + p[r]] = s & (1 << r) ? -1 : 1;
-      const det =
-        m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
-      if (det > 0) out.push(m);
-    }
-  }
-  return out;
 }
 
-/** Rotations about z putting each reference atom (heaviest off-axis, farthest from z) on +x. */
-function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule): Mat3[] {
+/**
+ * Rotations about z putting a reference atom on +x: the off-axis atoms of the heaviest element
+ * at the largest distance from z, one per orbit of the group (atoms of one orbit give the same
+ * points).
+ */
+function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule, orbitOf: Int32Array): Mat3[] {
   let bestMass = -1;
   let bestRho = -1;
   const n = mol.n;
@@ -117,9 +122,11 @@ function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule): Mat3[] 
   }
   if (bestMass < 0) return [identity3()];
   const out: Mat3[] = [];
+  const orbits = new Set<number>();
   for (let i = 0; i < n; i++) {
     const rho = Math.hypot(W[3 * i], W[3 * i + 1]);
-    if (Math.abs(mol.masses[i] - bestMass) <= 1e-9 && Math.abs(rho - bestRho) <= EPS) {
+    if (Math.abs(mol.masses[i] - bestMass) <= 1e-9 && Math.abs(rho - bestRho) <= EPS && !orbits.has(orbitOf[i])) {
+      orbits.add(orbitOf[i]);
       out.push(rz(-Math.atan2(W[3 * i + 1], W[3 * i])));
     }
   }
@@ -143,20 +150,6 @@ function inertiaFrames(W: Float64Array, mol: PreparedMolecule): Mat3[] {
     [-1, 1, -1],
     [-1, -1, 1],
   ].map(([p, q, r]) => [p * base[0], p * base[1], p * base[2], q * base[3], q * base[4], q * base[5], r * base[6], r * base[7], r * base[8]]);
-}
-
-function transform(S: Mat3, W: Float64Array): Float64Array {
-  const n = W.length / 3;
-  const X = new Float64Array(W.length);
-  for (let i = 0; i < n; i++) {
-    const a = W[3 * i];
-    const b = W[3 * i + 1];
-    const c = W[3 * i + 2];
-    X[3 * i] = S[0] * a + S[1] * b + S[2] * c;
-    X[3 * i + 1] = S[3] * a + S[4] * b + S[5] * c;
-    X[3 * i + 2] = S[6] * a + S[7] * b + S[8] * c;
-  }
-  return X;
 }
 
 /** Bonds as atom pairs (distance ≤ 1.2 × sum of covalent radii). */
@@ -237,46 +230,67 @@ function compareTuples(a: readonly number[], b: readonly number[]): number {
 
 /** The candidate with the largest canonical key (rule 3 of {@link standardOrientation}). */
 function pickByKey(pool: Mat3[], W: Float64Array, mol: PreparedMolecule): Mat3 {
-  const n = mol.n;
-  const { masses, symbols } = mol;
-  let bestS = pool[0];
-  let bestX: Float64Array | null = null;
-  let bestOrder: number[] = [];
-  const cmpAtoms = (X: Float64Array) => (i: number, j: number) => {
-    if (Math.abs(masses[i] - masses[j]) > 1e-9) return masses[j] - masses[i];
-    if (symbols[i] !== symbols[j]) return symbols[i] < symbols[j] ? -1 : 1;
-    for (const d of [2, 0, 1]) {
-      const diff = X[3 * j + d] - X[3 * i + d];
+  // Compare element by element, heaviest first: usually the heaviest element decides.
+  const groups = new Map<number, number[]>();
+  for (let i = 0; i < mol.n; i++) {
+    const list = groups.get(mol.kinds[i]) ?? [];
+    list.push(i);
+    groups.set(mol.kinds[i], list);
+  }
+  const ordered = [...groups.entries()]
+    .sort(([ka, a], [kb, b]) => mol.masses[b[0]] - mol.masses[a[0]] || (mol.kindSymbols[ka] < mol.kindSymbols[kb] ? -1 : 1))
+    .map(([, atoms]) => atoms);
+  let alive = pool;
+  for (const atoms of ordered) {
+    if (alive.length === 1) break;
+    let bestKeys: Float64Array | null = null;
+    let next: Mat3[] = [];
+    for (const S of alive) {
+      const keys = sortedTriples(S, atoms, W);
+      const cmp = bestKeys ? compareKeys(keys, bestKeys) : 1;
+      if (cmp > 0) {
+        bestKeys = keys;
+        next = [S];
+      } else if (cmp === 0) next.push(S);
+    }
+    alive = next;
+  }
+  return alive[0];
+}
+
+/** (z, x, y) of the atoms after rotation S, sorted descending (values within EPS equal), flattened. */
+function sortedTriples(S: Mat3, atoms: readonly number[], W: Float64Array): Float64Array {
+  const k = atoms.length;
+  const t = new Float64Array(3 * k);
+  for (let a = 0; a < k; a++) {
+    const i = atoms[a];
+    const p = W[3 * i];
+    const q = W[3 * i + 1];
+    const r = W[3 * i + 2];
+    t[3 * a] = S[6] * p + S[7] * q + S[8] * r;
+    t[3 * a + 1] = S[0] * p + S[1] * q + S[2] * r;
+    t[3 * a + 2] = S[3] * p + S[4] * q + S[5] * r;
+  }
+  const idx = Array.from({ length: k }, (_, a) => a).sort((a, b) => {
+    for (let d = 0; d < 3; d++) {
+      const diff = t[3 * b + d] - t[3 * a + d];
       if (Math.abs(diff) > EPS) return diff;
     }
     return 0;
-  };
-  for (const S of pool) {
-    const X = transform(S, W);
-    const order = Array.from({ length: n }, (_, i) => i).sort(cmpAtoms(X));
-    if (!bestX) {
-      bestS = S;
-      bestX = X;
-      bestOrder = order;
-      continue;
-    }
-    let verdict = 0;
-    for (let p = 0; p < n && verdict === 0; p++) {
-      const i = order[p];
-      const j = bestOrder[p];
-      for (const d of [2, 0, 1]) {
-        const diff = X[3 * i + d] - bestX[3 * j + d];
-        if (Math.abs(diff) > EPS) {
-          verdict = diff > 0 ? 1 : -1;
-          break;
-        }
-      }
-    }
-    if (verdict > 0) {
-      bestS = S;
-      bestX = X;
-      bestOrder = order;
-    }
+  });
+  const out = new Float64Array(3 * k);
+  idx.forEach((a, pos) => {
+    out[3 * pos] = t[3 * a];
+    out[3 * pos + 1] = t[3 * a + 1];
+    out[3 * pos + 2] = t[3 * a + 2];
+  });
+  return out;
+}
+
+function compareKeys(a: Float64Array, b: Float64Array): number {
+  for (let i = 0; i < a.length; i++) {
+    const diff = a[i] - b[i];
+    if (Math.abs(diff) > EPS) return diff > 0 ? 1 : -1;
   }
-  return bestS;
+  return 0;
 }

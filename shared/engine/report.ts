@@ -29,7 +29,9 @@ export interface OrientedFit {
 
 /** Fits a found group and orients it (see fit-frame.ts and orient.ts). */
 export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
-  const S = standardOrientation(fit.name, fit.W, a.mol);
+  const orbitOf = new Int32Array(a.mol.n);
+  equivalenceClasses(a.mol.n, fit.perms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
+  const S = standardOrientation(fit.name, fit.W, a.mol, orbitOf);
   const labels = labelElements(fit.ideal.name, fit.ideal, S);
   return { fit, S, labels };
 }

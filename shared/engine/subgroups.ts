@@ -31,42 +31,39 @@ export function computationalSubgroup(
   S: Mat3,
 ): { name: string; members: number[]; alternatives: string[] } {
   const order = ideal.elements.length;
-  const inv = ideal.elements.map((_, k) => k).filter((k) => k > 0 && ideal.mul[k * order + k] === 0);
-  const commute = (a: number, b: number) => ideal.mul[a * order + b] === ideal.mul[b * order + a];
+  const mul = ideal.mul;
+  const inv: number[] = [];
+  for (let k = 1; k < order; k++) if (mul[k * order + k] === 0) inv.push(k);
+  const commute = (a: number, b: number) => mul[a * order + b] === mul[b * order + a];
+  // Largest first: triples of commuting involutions (order 8), else pairs (4), else one (2).
   const found = new Map<string, number[]>();
-  const add = (gens: number[]) => {
-    const set = new Set<number>([0]);
-    const list = [0];
-    for (let k = 0; k < list.length; k++) {
-      for (const g of gens) {
-        const p = ideal.mul[list[k] * order + g];
-        if (!set.has(p)) {
-          set.add(p);
-          list.push(p);
-        }
-      }
-    }
-    list.sort((a, b) => a - b);
-    found.set(list.join(','), list);
+  const keep = (members: number[]) => {
+    members.sort((a, b) => a - b);
+    found.set(members.join(','), members);
   };
-  add([]);
   for (let x = 0; x < inv.length; x++) {
-    add([inv[x]]);
     for (let y = x + 1; y < inv.length; y++) {
-      if (!commute(inv[x], inv[y])) continue;
-      add([inv[x], inv[y]]);
-      const ab = ideal.mul[inv[x] * order + inv[y]];
+      const a = inv[x];
+      const b = inv[y];
+      if (!commute(a, b)) continue;
+      const ab = mul[a * order + b];
       for (let z = y + 1; z < inv.length; z++) {
         const c = inv[z];
-        if (c === ab || !commute(inv[x], c) || !commute(inv[y], c)) continue;
-        add([inv[x], inv[y], c]);
+        if (c === ab || !commute(a, c) || !commute(b, c)) continue;
+        keep([0, a, b, ab, c, mul[a * order + c], mul[b * order + c], mul[ab * order + c]]);
       }
     }
   }
-  const groups = [...found.values()];
-  const maxOrder = Math.max(...groups.map((g) => g.length));
-  const top = groups
-    .filter((g) => g.length === maxOrder)
+  if (found.size === 0) {
+    for (let x = 0; x < inv.length; x++) {
+      for (let y = x + 1; y < inv.length; y++) {
+        if (commute(inv[x], inv[y])) keep([0, inv[x], inv[y], mul[inv[x] * order + inv[y]]]);
+      }
+    }
+  }
+  if (found.size === 0) for (const a of inv) keep([0, a]);
+  if (found.size === 0) keep([0]);
+  const top = [...found.values()]
     .map((members) => ({
       members,
       name: identifyGroup(members.map((k) => ideal.elements[k])) ?? '?',
