@@ -104,8 +104,8 @@ function axisPermutations(): Mat3[] {
 
 /**
  * Rotations about z putting a reference atom on +x: the off-axis atoms of the heaviest element
- * at the largest distance from z, one per orbit of the group (atoms of one orbit give the same
- * points).
+ * at the largest distance from z, one per orbit of the group's rotations (atoms related by a
+ * rotation give the same points; atoms related only by an improper operation do not).
  */
 function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule, orbitOf: Int32Array): Mat3[] {
   let bestMass = -1;

@@ -29,8 +29,10 @@ export interface OrientedFit {
 
 /** Fits a found group and orients it (see fit-frame.ts and orient.ts). */
 export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
+  // Orbits under the proper rotations only: atoms related by a rotation give the same frame.
   const orbitOf = new Int32Array(a.mol.n);
-  equivalenceClasses(a.mol.n, fit.perms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
+  const properPerms = fit.perms.filter((_, k) => fit.ideal.elements[k].det > 0);
+  equivalenceClasses(a.mol.n, properPerms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
   const S = standardOrientation(fit.name, fit.W, a.mol, orbitOf);
   const labels = labelElements(fit.ideal.name, fit.ideal, S);
   return { fit, S, labels };
