@@ -122,10 +122,14 @@ export async function runSnap(argv: string[]): Promise<number> {
         const result = snap(m, settings);
         entry = { ...result, inputFile: m.sourceFile, frameIndex: m.frameIndex };
         if (values.out != null) {
-          const written: string[] = [];
-          for (const format of settings.outputFormats) {
+          // Every format is written and checked before any file is saved: all or nothing.
+          const texts = settings.outputFormats.map((format) => {
             const text = writeStructure(format, result);
             verifyWritten(format, text, result);
+            return { format, text };
+          });
+          const written: string[] = [];
+          for (const { format, text } of texts) {
             const first = outputFileName(m.sourceFile, m.frameIndex, item.frameCount, format);
             const ext = OUTPUT_EXTENSIONS[format];
             let fileName = first;
