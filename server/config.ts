@@ -45,8 +45,8 @@ export const configSchema = z.object({
   ZIP_MAX_ENTRIES: z.coerce.number().int().positive().default(5000),
   ZIP_MAX_UNCOMPRESSED_BYTES: z.coerce.number().int().positive().default(1024 * 1024 * 1024),
   ZIP_MAX_RATIO: z.coerce.number().positive().default(200),
-  /** Sign-in attempts allowed per client IP per 15 minutes. */
-  RATE_LIMIT_SIGN_IN: z.coerce.number().int().positive().default(40),
+  /** Sign-in requests (start + callback) allowed per client IP per 15 minutes; a group behind one NAT shares it. */
+  RATE_LIMIT_SIGN_IN: z.coerce.number().int().positive().default(100),
   /** Invitations an owner may send (and links anyone may try) per hour, per user or IP. */
   RATE_LIMIT_INVITATIONS: z.coerce.number().int().positive().default(60),
   /** Batch uploads (and previews) per user per 15 minutes. */

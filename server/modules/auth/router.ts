@@ -38,6 +38,12 @@ export function createAuthRouter(deps: AppDeps): Router {
   const workspaces = createWorkspaceService(deps);
   const passport = createSignInPassport(deps.config, (profile) => auth.signInFromProvider(profile));
   const limit = signInRateLimit(deps);
+  if (deps.config.NODE_ENV === 'production' && /^https?:\/\/(127\.|localhost|\[::1\])/.test(deps.config.OAUTH_BASE_URL)) {
+    deps.logger.warn(
+      { oauthBaseUrl: deps.config.OAUTH_BASE_URL },
+      'sign-in points at a loopback provider in production; set OAUTH_BASE_URL=https://github.com and OAUTH_API_URL=https://api.github.com',
+    );
+  }
   const router = Router();
 
   router.get('/auth/github', limit, (req, res, next) => {

@@ -33,7 +33,7 @@ describe('hardening', () => {
       expect(directives.get('script-src')).toEqual(["'self'"]);
       expect(directives.get('style-src')).toEqual(["'self'"]);
       expect(directives.get('img-src')).toEqual(["'self'", 'data:', 'blob:']);
-      expect(directives.get('font-src')).toEqual(["'self'"]);
+      expect(directives.get('font-src')).toEqual(["'self'", 'data:']);
       expect(directives.get('object-src')).toEqual(["'none'"]);
       expect(directives.get('frame-ancestors')).toEqual(["'none'"]);
       expect(csp).not.toContain('unsafe-inline');
