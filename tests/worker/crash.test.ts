@@ -42,7 +42,7 @@ it('completes a batch after its worker is killed mid-way, with one result per st
   await stop(worker, 'SIGKILL');
   const atKill = await states(db.dataSource, id);
   expect(atKill.done ?? 0, 'killed before the end').toBeLessThan(total);
-  expect(before.done).toBeGreaterThanOrEqual(10);
+  expect(before?.done).toBeGreaterThanOrEqual(10);
 
   worker = await startWorkerProcess(env);
   const batch = await waitForBatch(t, chemist, id, 120_000);
