@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { launchPlainBrowser, screenshot } from './support/browser';
-import { newSession, signIn } from './support/web-session';
+import { launchPlainBrowser } from './support/browser';
+import { newSession, shot, signIn } from './support/web-session';
 
 describe('signing in through the local provider', () => {
   let browser: Browser;
@@ -20,7 +20,7 @@ describe('signing in through the local provider', () => {
     await page.goto('/w/demo');
     await page.getByRole('link', { name: 'Sign in with GitHub' }).waitFor();
     expect(new URL(page.url()).pathname).toBe('/sign-in');
-    await screenshot(page, 'web-sign-in');
+    await shot(page, 'web-sign-in');
 
     await signIn(page, { demo: 'Demo Chemist' }, page.url());
     // returnTo brought us back to the page we asked for.
@@ -32,7 +32,7 @@ describe('signing in through the local provider', () => {
     expect(await page.getByRole('combobox', { name: 'Workspace' }).inputValue()).toBe('demo');
     // The seeded demo batch is listed.
     expect(await page.getByRole('table').getByRole('row').count()).toBeGreaterThan(1);
-    await screenshot(page, 'web-batches');
+    await shot(page, 'web-batches');
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByRole('link', { name: 'Sign in with GitHub' }).waitFor();

@@ -2,8 +2,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { batchDetailSchema } from '@shared/contracts/api';
-import { launchPlainBrowser, screenshot } from './support/browser';
-import { newSession, signIn } from './support/web-session';
+import { launchPlainBrowser } from './support/browser';
+import { newSession, shot, signIn } from './support/web-session';
 
 const examples = join(import.meta.dirname, '..', '..', 'examples', 'demo');
 const files = ['ligands.xyz', 'fragments.xyz', 'complexes.sdf', 'clusters.qcschema.json'].map((f) => join(examples, f));
@@ -31,12 +31,12 @@ describe('a chemist uploads the example batch', () => {
     await recognised.waitFor({ timeout: 30_000 });
     expect(await recognised.textContent()).toMatch(/[1-9]\d* structures? in/);
     await page.getByLabel('Batch name').fill('Example batch (browser test)');
-    await screenshot(page, 'web-new-batch');
+    await shot(page, 'web-new-batch');
 
     await page.getByRole('button', { name: 'Upload and snap' }).click();
     await page.waitForURL(/\/w\/demo\/batches\/[^/]+$/, { timeout: 60_000 });
     const batchId = new URL(page.url()).pathname.split('/').pop()!;
-    await screenshot(page, 'web-batch-submitted');
+    await shot(page, 'web-batch-submitted');
 
     // Watch it finish (the page polls; the test asks the API with the same session).
     const deadline = Date.now() + 90_000;
@@ -57,11 +57,11 @@ describe('a chemist uploads the example batch', () => {
     const outcome = await row.getByLabel('Outcome of Example batch (browser test)').textContent();
     expect(outcome).toMatch(/clean\d+over budget\d+knife edge\d+error\d+/);
     expect(await row.getByRole('list', { name: 'Point groups found' }).getByRole('listitem').count()).toBeGreaterThan(0);
-    await screenshot(page, 'web-batches-after-upload');
+    await shot(page, 'web-batches-after-upload');
 
     await page.goto(`/w/demo/batches/${batchId}`);
     await page.waitForLoadState('networkidle');
-    await screenshot(page, 'web-batch-done');
+    await shot(page, 'web-batch-done');
     await context.close();
   });
 });

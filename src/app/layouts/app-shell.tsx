@@ -33,39 +33,41 @@ export function AppShell() {
       {navigation.state === 'loading' && (
         <div role="progressbar" aria-label="Loading page" className="fixed inset-x-0 top-0 z-40 h-0.5 animate-pulse bg-saffron" />
       )}
-      <aside className="sticky top-0 flex h-screen w-60 shrink-0 flex-col gap-6 border-r border-rule bg-paper-deep/70 px-4 py-5">
-        <NavLink to="/" className={cx('rounded-md', focusRing)} aria-label="Pointfold home">
-          <NameMark />
-        </NavLink>
-        <WorkspaceSwitcher memberships={me.memberships} currentSlug={slug} onSwitch={(s) => navigate(`/w/${encodeURIComponent(s)}`)} />
-        {base && membership && (
-          <nav aria-label="Workspace" className="flex flex-col gap-0.5">
-            <RailLink to={base} end>
-              Batches
-            </RailLink>
-            {canWrite(membership.role) && <RailLink to={`${base}/new`}>New batch</RailLink>}
-            <RailLink to={`${base}/settings`}>{isOwner(membership.role) ? 'Settings' : 'API tokens'}</RailLink>
-          </nav>
-        )}
-        <div className="mt-auto flex flex-col gap-2 border-t border-rule pt-4 text-sm">
-          <div className="min-w-0">
-            <div className="truncate font-medium" title={me.user.email}>
-              {me.user.name || me.user.login}
-            </div>
-            <div className="truncate text-xs text-ink-faint">{me.user.email}</div>
-          </div>
-          {membership && (
-            <div className="flex items-center gap-1.5 text-xs text-ink-soft">
-              <span>Your role:</span>
-              <Badge tone={membership.role === 'owner' ? 'saffron' : membership.role === 'chemist' ? 'lapis' : 'neutral'}>
-                {membership.role}
-              </Badge>
-            </div>
+      <aside className="w-60 shrink-0 border-r border-rule bg-paper-deep/70">
+        <div className="sticky top-0 flex h-screen flex-col gap-6 px-4 py-5">
+          <NavLink to="/" className={cx('rounded-md', focusRing)} aria-label="Pointfold home">
+            <NameMark />
+          </NavLink>
+          <WorkspaceSwitcher memberships={me.memberships} currentSlug={slug} onSwitch={(s) => navigate(`/w/${encodeURIComponent(s)}`)} />
+          {base && membership && (
+            <nav aria-label="Workspace" className="flex flex-col gap-0.5">
+              <RailLink to={base} end>
+                Batches
+              </RailLink>
+              {canWrite(membership.role) && <RailLink to={`${base}/new`}>New batch</RailLink>}
+              <RailLink to={`${base}/settings`}>{isOwner(membership.role) ? 'Settings' : 'API tokens'}</RailLink>
+            </nav>
           )}
-          <Button variant="secondary" size="sm" busy={signOut.isPending} onClick={() => signOut.mutate()}>
-            Sign out
-          </Button>
-          {signOut.isError && <InlineError>{signOut.error.message}</InlineError>}
+          <div className="mt-auto flex flex-col gap-2 border-t border-rule pt-4 text-sm">
+            <div className="min-w-0">
+              <div className="truncate font-medium" title={me.user.email}>
+                {me.user.name || me.user.login}
+              </div>
+              <div className="truncate text-xs text-ink-faint">{me.user.email}</div>
+            </div>
+            {membership && (
+              <div className="flex items-center gap-1.5 text-xs text-ink-soft">
+                <span>Your role:</span>
+                <Badge tone={membership.role === 'owner' ? 'saffron' : membership.role === 'chemist' ? 'lapis' : 'neutral'}>
+                  {membership.role}
+                </Badge>
+              </div>
+            )}
+            <Button variant="secondary" size="sm" busy={signOut.isPending} onClick={() => signOut.mutate()}>
+              Sign out
+            </Button>
+            {signOut.isError && <InlineError>{signOut.error.message}</InlineError>}
+          </div>
         </div>
       </aside>
       <main id="content" className="min-w-0 flex-1 px-8 py-7">

@@ -7,7 +7,7 @@ import { FoldGlyph } from '@/components/ui/states';
  */
 export function NotFoundPage() {
   return (
-    <main className="flex min-h-[60vh] flex-col items-center justify-center gap-4 px-6 text-center">
+    <div className="flex min-h-[60vh] flex-col items-center justify-center gap-4 px-6 text-center">
       <FoldGlyph className="size-12" />
       <h1 className="text-2xl font-semibold">Not found — or not yours</h1>
       <p className="max-w-md text-sm text-ink-soft">
@@ -17,6 +17,6 @@ export function NotFoundPage() {
       <ButtonLink to="/" variant="secondary">
         Back to my workspace
       </ButtonLink>
-    </main>
+    </div>
   );
 }

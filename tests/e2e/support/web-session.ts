@@ -1,5 +1,6 @@
 import { inject } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { screenshot } from './browser';
 
 /** A fresh, isolated browser session (own cookies) against the app under test, at 1280 × 800. */
 export async function newSession(browser: Browser): Promise<{ context: BrowserContext; page: Page }> {
@@ -19,9 +20,15 @@ export async function signIn(page: Page, who: { demo: 'Demo Owner' | 'Demo Chemi
   if ('demo' in who) {
     await page.getByRole('button', { name: new RegExp(`^${who.demo}\\b`) }).click();
   } else {
-    await page.getByRole('textbox', { name: 'Login' }).fill(who.login);
+    await page.getByRole('textbox', { name: 'Login', exact: true }).fill(who.login);
     await page.getByRole('button', { name: 'Continue as this login' }).click();
   }
   // Back in the app: the rail with the sign-out button is there once /api/me answered.
   await page.getByRole('button', { name: 'Sign out' }).waitFor();
+}
+
+/** A full-page screenshot taken from the top, so the sticky rail sits where a reader expects it. */
+export async function shot(page: Page, name: string): Promise<string> {
+  await page.evaluate(() => window.scrollTo(0, 0));
+  return screenshot(page, name);
 }

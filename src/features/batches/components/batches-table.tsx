@@ -22,7 +22,7 @@ export function BatchesTable({ batches, batchHref, now }: { batches: BatchSummar
           <TH>Batch</TH>
           <TH>Submitted by</TH>
           <TH>Created</TH>
-          <TH className="w-52">Status</TH>
+          <TH className="w-44">Status</TH>
           <TH>Outcome</TH>
           <TH>Groups found</TH>
         </TR>
@@ -47,7 +47,7 @@ function BatchRow({ batch, href, now }: { batch: BatchSummary; href: string; now
         </Link>
         <div className="num text-xs text-ink-faint">{formatCount(counts.total)} structures</div>
       </TD>
-      <TD className="text-ink-soft">{batch.submitter.name}</TD>
+      <TD className="whitespace-nowrap text-ink-soft">{batch.submitter.name}</TD>
       <TD className="whitespace-nowrap text-ink-soft">
         <time dateTime={batch.createdAt} title={formatDateTime(batch.createdAt)}>
           {formatRelative(batch.createdAt, now)}
@@ -107,7 +107,7 @@ function GroupList({ groups }: { groups: BatchSummary['groups'] }) {
   const shown = groups.slice(0, MAX_GROUPS_SHOWN);
   const rest = groups.length - shown.length;
   return (
-    <ul aria-label="Point groups found" className="flex max-w-64 flex-wrap gap-1">
+    <ul aria-label="Point groups found" className="flex max-w-80 min-w-52 flex-wrap gap-1">
       {shown.map((g) => (
         <li key={g.group}>
           <GroupBadge group={g.group} count={g.count} />

@@ -44,11 +44,7 @@ export function PreviewPanel({ preview, pending, error }: { preview: BatchPrevie
           <h4 className="font-medium text-brick">{plural(preview.errors.length, 'problem')} — these parts will be skipped, the rest goes on</h4>
           <ul className="mt-1 max-h-48 list-disc overflow-auto pl-5 text-ink">
             {preview.errors.map((e, i) => (
-              <li key={i}>
-                {[e.file, e.frame != null ? `frame ${e.frame + 1}` : null, e.line != null ? `line ${e.line}` : null].filter(Boolean).join(', ')}
-                {e.file ? ': ' : ''}
-                {e.message}
-              </li>
+              <li key={i}>{describeProblem(e)}</li>
             ))}
           </ul>
         </div>
@@ -56,6 +52,13 @@ export function PreviewPanel({ preview, pending, error }: { preview: BatchPrevie
       {structures === 0 && preview.errors.length === 0 && <p className="mt-2 text-ochre">No structures were found in these files.</p>}
     </section>
   );
+}
+
+/** "file, frame n, line m: message", unless the message already says where (the parser's messages do). */
+export function describeProblem(e: BatchPreview['errors'][number]): string {
+  if (e.file && e.message.includes(e.file)) return e.message;
+  const where = [e.file, e.frame != null ? `frame ${e.frame + 1}` : null, e.line != null ? `line ${e.line}` : null].filter(Boolean).join(', ');
+  return where ? `${where}: ${e.message}` : e.message;
 }
 
 function sum(values: number[]): number {

@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import { invitationCreateSchema, invitationSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { invitationsQueryOptions } from './get-invitations';
-import { workspacePath } from './paths';
+import { settingsKeys, workspacePath } from './paths';
 
 export type InvitationInput = z.infer<typeof invitationCreateSchema>;
 
@@ -15,6 +15,8 @@ export function createInvitation(slug: string, input: InvitationInput) {
 export function useCreateInvitation(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
+    // Every change here is written to the audit log; show it there at once.
+    onSettled: () => queryClient.invalidateQueries({ queryKey: settingsKeys.audit(slug) }),
     mutationFn: (input: InvitationInput) => createInvitation(slug, input),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: invitationsQueryOptions(slug).queryKey }),
   });

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from '@/lib/api-client';
 import { membersQueryOptions } from './get-members';
-import { workspacePath } from './paths';
+import { settingsKeys, workspacePath } from './paths';
 
 /** DELETE /api/workspaces/:slug/members/:userId — remove someone (owners); the last owner can't go. */
 export function removeMember(slug: string, userId: string) {
@@ -12,6 +12,6 @@ export function useRemoveMember(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (userId: string) => removeMember(slug, userId),
-    onSettled: () => queryClient.invalidateQueries({ queryKey: membersQueryOptions(slug).queryKey }),
+    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: settingsKeys.audit(slug) }), queryClient.invalidateQueries({ queryKey: membersQueryOptions(slug).queryKey })]),
   });
 }

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from '@/lib/api-client';
 import { invitationsQueryOptions } from './get-invitations';
-import { workspacePath } from './paths';
+import { settingsKeys, workspacePath } from './paths';
 
 /** DELETE /api/workspaces/:slug/invitations/:id — the link stops working. */
 export function revokeInvitation(slug: string, id: string) {
@@ -12,6 +12,6 @@ export function useRevokeInvitation(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => revokeInvitation(slug, id),
-    onSettled: () => queryClient.invalidateQueries({ queryKey: invitationsQueryOptions(slug).queryKey }),
+    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: settingsKeys.audit(slug) }), queryClient.invalidateQueries({ queryKey: invitationsQueryOptions(slug).queryKey })]),
   });
 }

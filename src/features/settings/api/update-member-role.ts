@@ -4,7 +4,7 @@ import { memberSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
 import { membersQueryOptions } from './get-members';
-import { workspacePath } from './paths';
+import { settingsKeys, workspacePath } from './paths';
 
 /** PATCH /api/workspaces/:slug/members/:userId — change a member's role (owners). */
 export function updateMemberRole(slug: string, userId: string, role: Role) {
@@ -20,6 +20,7 @@ export function useUpdateMemberRole(slug: string) {
   return useMutation({
     mutationFn: ({ userId, role }: { userId: string; role: Role }) => updateMemberRole(slug, userId, role),
     onSettled: () => {
+      void queryClient.invalidateQueries({ queryKey: settingsKeys.audit(slug) });
       void queryClient.invalidateQueries({ queryKey: membersQueryOptions(slug).queryKey });
       // Your own role may have changed: the rail and the pages read it from /api/me.
       void queryClient.invalidateQueries({ queryKey: queryKeys.me() });
