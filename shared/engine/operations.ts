@@ -65,17 +65,26 @@ export function permutationOrder(perm: Int32Array, cap = 1 << 20): number {
 }
 
 /**
+ * Largest angle error (rad) accepted when snapping to an element of order m: a quarter of the
+ * spacing 2π/m between allowed angles, at most 0.5 rad — a pairing whose best-fit angle is
+ * farther from every allowed one is not a point-group element of that order.
+ */
+function maxAngleError(order: number): number {
+  return Math.min(0.5, Math.PI / (2 * order));
+}
+
+/**
  * Snaps an orthogonal matrix `r` (determinant `det`) whose element order is known to be `order`
  * onto the nearest exact point-group element of that order: the axis is kept, the angle rounded
  * to a multiple of 2π/order. Returns null when no element of that order is near `r` (e.g. the
- * permutation has order 3 but the matrix is a rotation by 180°).
+ * permutation has order 3 but the matrix is a rotation by 180°; see maxAngleError).
  */
 export function regularize(r: Mat3, det: 1 | -1, order: number): { matrix: Mat3; type: OpType } | null {
   if (det === 1) {
     if (order === 1) return { matrix: identity3(), type: { det, kind: 'identity', order: 1, j: 0, axis: [0, 0, 0] } };
     const { axis, angle } = axisAngle3(r);
     const j = Math.round((angle * order) / (2 * Math.PI));
-    if (j === 0 || gcd(j, order) !== 1) return null;
+    if (j === 0 || gcd(j, order) !== 1 || Math.abs(angle - (2 * Math.PI * j) / order) > maxAngleError(order)) return null;
     const a = canonicalDirection(axis);
     const sign = dot3(a, axis) > 0 ? 1 : -1;
     return {
@@ -87,6 +96,7 @@ export function regularize(r: Mat3, det: 1 | -1, order: number): { matrix: Mat3;
   const { axis, angle: psi } = axisAngle3(r.map((v) => -v));
   // −R = Rot(a, φ + π) for R = Rot(a, φ)·σ_a, so |φ| = π − ψ.
   const j = Math.round(((Math.PI - psi) * order) / (2 * Math.PI));
+  if (Math.abs(Math.PI - psi - (2 * Math.PI * j) / order) > maxAngleError(order)) return null;
   const rotOrder = order / gcd(j, order);
   if (lcm(rotOrder, 2) !== order) return null;
   if (2 * j === order) {
