@@ -26,7 +26,9 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     }
     const status = typeof err?.status === 'number' && err.status >= 400 && err.status < 500 ? err.status : 500;
     if (status < 500) {
-      res.status(status).json({ error: { code: 'bad-request', message: String(err.message ?? 'Bad request') } });
+      // Body-parser and multer errors carry their own 4xx status (413 for an oversized body).
+      const code = status === 413 ? 'too-large' : status === 429 ? 'rate-limited' : 'bad-request';
+      res.status(status).json({ error: { code, message: String(err.message ?? 'Bad request') } });
       return;
     }
     logger.error({ err, method: req.method, url: req.originalUrl }, 'unhandled error');

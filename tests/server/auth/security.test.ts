@@ -93,6 +93,7 @@ describe('hardening', () => {
       const big = { name: 'x'.repeat(1024 * 1024 + 10) };
       const res = await asOwner.patch('/api/workspaces/demo').send(big).expect(413);
       expect(res.body.error.message).toMatch(/too large/i);
+      expect(res.body.error.code).toBe('too-large');
     });
 
     it('answers malformed JSON with 400 and never a stack trace', async () => {
