@@ -53,7 +53,7 @@ export function AppShell() {
               <div className="truncate font-medium" title={me.user.email}>
                 {me.user.name || me.user.login}
               </div>
-              <div className="truncate text-xs text-ink-faint">{me.user.email}</div>
+              <div className="truncate text-xs text-ink-soft">{me.user.email}</div>
             </div>
             {membership && (
               <div className="flex items-center gap-1.5 text-xs text-ink-soft">

@@ -33,7 +33,7 @@ export function Field({
       </label>
       {children({ id, 'aria-describedby': describedBy, 'aria-invalid': error ? true : undefined })}
       {hint && !error && (
-        <p id={hintId} className="text-xs text-ink-faint">
+        <p id={hintId} className="text-xs text-ink-soft">
           {hint}
         </p>
       )}
@@ -63,7 +63,7 @@ export const TextField = forwardRef<HTMLInputElement, TextFieldProps>(function T
         suffix ? (
           <div className="relative">
             <input ref={ref} className={cx(inputClass, 'pr-10')} {...a11y} {...rest} />
-            <span className="pointer-events-none absolute inset-y-0 right-3 flex items-center text-sm text-ink-faint">{suffix}</span>
+            <span className="pointer-events-none absolute inset-y-0 right-3 flex items-center text-sm text-ink-soft">{suffix}</span>
           </div>
         ) : (
           <input ref={ref} className={inputClass} {...a11y} {...rest} />

@@ -18,7 +18,7 @@ export function GroupSymbol({ group, className }: { group: string; className?: s
 }
 
 export function GroupBadge({ group, count, className }: { group: string | null | undefined; count?: number; className?: string }) {
-  if (!group) return <span className="text-ink-faint">—</span>;
+  if (!group) return <span className="text-ink-soft">—</span>;
   return (
     <span
       className={cx(

@@ -5,7 +5,7 @@ export function PageHeader({ title, description, actions, eyebrow }: { title: Re
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-rule pb-4">
       <div className="min-w-0">
-        {eyebrow && <div className="mb-1 text-xs font-medium tracking-wide text-ink-faint uppercase">{eyebrow}</div>}
+        {eyebrow && <div className="mb-1 text-xs font-medium tracking-wide text-ink-soft uppercase">{eyebrow}</div>}
         <h1 className="truncate text-2xl font-semibold tracking-tight text-ink">{title}</h1>
         {description && <p className="mt-1 text-sm text-ink-soft">{description}</p>}
       </div>

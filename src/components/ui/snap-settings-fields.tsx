@@ -77,13 +77,13 @@ export function SnapSettingsFields({ prefix, idPrefix = 'snap' }: { prefix: stri
       <fieldset className="flex flex-col gap-2 sm:col-span-2">
         <legend className="mb-1 text-sm font-medium text-ink">Snap to</legend>
         <Choice id={`${idPrefix}-target-perceived`} value="perceived" {...register(path('target.kind'))}>
-          The perceived group <span className="text-ink-faint">— the group found at this tolerance</span>
+          The perceived group <span className="text-ink-soft">— the group found at this tolerance</span>
         </Choice>
         <Choice id={`${idPrefix}-target-computational`} value="computational" {...register(path('target.kind'))}>
-          The computational subgroup <span className="text-ink-faint">— the largest subgroup among D2h and its subgroups</span>
+          The computational subgroup <span className="text-ink-soft">— the largest subgroup among D2h and its subgroups</span>
         </Choice>
         <Choice id={`${idPrefix}-target-group`} value="group" {...register(path('target.kind'))}>
-          A named group <span className="text-ink-faint">— must be the perceived group or one of its subgroups</span>
+          A named group <span className="text-ink-soft">— must be the perceived group or one of its subgroups</span>
         </Choice>
         {targetKind === 'group' && (
           <div className="ml-7 max-w-48">
@@ -97,10 +97,10 @@ export function SnapSettingsFields({ prefix, idPrefix = 'snap' }: { prefix: stri
       <fieldset className="flex flex-col gap-2 sm:col-span-2">
         <legend className="mb-1 text-sm font-medium text-ink">Frame</legend>
         <Choice id={`${idPrefix}-frame-standard`} value="standard" {...register(path('frame'))}>
-          Standard frame <span className="text-ink-faint">— centre of mass at the origin, principal axis on z</span>
+          Standard frame <span className="text-ink-soft">— centre of mass at the origin, principal axis on z</span>
         </Choice>
         <Choice id={`${idPrefix}-frame-input`} value="input" {...register(path('frame'))}>
-          Keep the input frame <span className="text-ink-faint">— the applied rotation and translation are reported</span>
+          Keep the input frame <span className="text-ink-soft">— the applied rotation and translation are reported</span>
         </Choice>
       </fieldset>
 

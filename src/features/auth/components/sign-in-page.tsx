@@ -32,7 +32,7 @@ export function SignInPage() {
           <KeyGlyph />
           Sign in with GitHub
         </a>
-        <p className="mt-6 text-xs text-ink-faint">
+        <p className="mt-6 text-xs text-ink-soft">
           New here? Ask a workspace owner for an invitation; the link in the e-mail brings you back after sign-in.
         </p>
       </div>

@@ -45,7 +45,7 @@ function BatchRow({ batch, href, now }: { batch: BatchSummary; href: string; now
         <Link to={href} className={cx('block truncate font-medium text-lapis-deep underline-offset-2 hover:underline', focusRing)}>
           {batch.name}
         </Link>
-        <div className="num text-xs text-ink-faint">{formatCount(counts.total)} structures</div>
+        <div className="num text-xs text-ink-soft">{formatCount(counts.total)} structures</div>
       </TD>
       <TD className="whitespace-nowrap text-ink-soft">{batch.submitter.name}</TD>
       <TD className="whitespace-nowrap text-ink-soft">
@@ -89,7 +89,7 @@ export function OutcomeCounts({ counts, batchName }: { counts: BatchSummary['cou
       {outcomes.map(({ key, label, dot }) => {
         const value = counts[key];
         return (
-          <div key={key} className={cx('contents', value === 0 && 'text-ink-faint')}>
+          <div key={key} className={cx('contents', value === 0 && 'text-ink-soft')}>
             <dt className="flex items-center gap-1.5">
               <span aria-hidden className={cx('size-1.5 rounded-full', value === 0 ? 'bg-rule' : dot)} />
               {label}
@@ -103,7 +103,7 @@ export function OutcomeCounts({ counts, batchName }: { counts: BatchSummary['cou
 }
 
 function GroupList({ groups }: { groups: BatchSummary['groups'] }) {
-  if (groups.length === 0) return <span className="text-xs text-ink-faint">none yet</span>;
+  if (groups.length === 0) return <span className="text-xs text-ink-soft">none yet</span>;
   const shown = groups.slice(0, MAX_GROUPS_SHOWN);
   const rest = groups.length - shown.length;
   return (
@@ -113,7 +113,7 @@ function GroupList({ groups }: { groups: BatchSummary['groups'] }) {
           <GroupBadge group={g.group} count={g.count} />
         </li>
       ))}
-      {rest > 0 && <li className="self-center text-xs text-ink-faint">+{rest} more</li>}
+      {rest > 0 && <li className="self-center text-xs text-ink-soft">+{rest} more</li>}
     </ul>
   );
 }

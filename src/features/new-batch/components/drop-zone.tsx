@@ -100,7 +100,7 @@ export function DropZone({
               <span className="min-w-0 flex-1 truncate font-medium" title={file.name}>
                 {file.name}
               </span>
-              <span className="num w-20 text-right text-xs text-ink-faint">{formatBytes(file.size)}</span>
+              <span className="num w-20 text-right text-xs text-ink-soft">{formatBytes(file.size)}</span>
               {progress ? (
                 <ProgressBar className="w-40" value={Math.round((progress[index] ?? 0) * 100)} label={`Upload of ${file.name}`} />
               ) : (

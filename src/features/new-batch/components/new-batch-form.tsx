@@ -102,7 +102,7 @@ export function NewBatchForm({
             <Button type="submit" busy={submitting}>
               {submitting ? 'Uploading…' : 'Upload and snap'}
             </Button>
-            <span className="text-xs text-ink-faint">Structures are queued for the workers as soon as the upload ends.</span>
+            <span className="text-xs text-ink-soft">Structures are queued for the workers as soon as the upload ends.</span>
           </div>
         </section>
       </form>

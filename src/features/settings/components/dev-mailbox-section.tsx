@@ -38,7 +38,7 @@ export function DevMailboxSection({ slug }: { slug: string }) {
                 <summary className="flex cursor-pointer flex-wrap items-baseline gap-x-3 px-4 py-2.5 text-sm">
                   <span className="font-medium">{m.subject || '(no subject)'}</span>
                   <span className="text-ink-soft">to {m.to}</span>
-                  <span className="num ml-auto text-xs text-ink-faint">{formatDateTime(m.date)}</span>
+                  <span className="num ml-auto text-xs text-ink-soft">{formatDateTime(m.date)}</span>
                 </summary>
                 <pre className="num overflow-x-auto border-t border-rule px-4 py-3 text-xs whitespace-pre-wrap text-ink">{m.text}</pre>
               </details>

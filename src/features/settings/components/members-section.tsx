@@ -55,7 +55,7 @@ export function MembersSection({ slug, owner, myUserId }: { slug: string; owner:
               <TR key={m.user.id}>
                 <TD className="font-medium">
                   {name}
-                  {m.user.id === myUserId && <span className="ml-2 text-xs font-normal text-ink-faint">(you)</span>}
+                  {m.user.id === myUserId && <span className="ml-2 text-xs font-normal text-ink-soft">(you)</span>}
                 </TD>
                 <TD className="text-ink-soft">{m.user.email}</TD>
                 <TD>

@@ -85,7 +85,7 @@ export function TokensSection({ slug, owner }: { slug: string; owner: boolean })
           </THead>
           <TBody>
             {tokens.map((t) => (
-              <TR key={t.id} className={t.revokedAt ? 'text-ink-faint' : undefined}>
+              <TR key={t.id} className={t.revokedAt ? 'text-ink-soft' : undefined}>
                 <TD className="font-medium">
                   {t.label} {t.revokedAt && <Badge className="ml-1">revoked</Badge>}
                 </TD>

@@ -22,7 +22,7 @@ export function WorkspaceSwitcher({
   const known = memberships.some((m) => m.workspace.slug === currentSlug);
   return (
     <div className="flex flex-col gap-1">
-      <label htmlFor="workspace-switcher" className="text-xs font-medium tracking-wide text-ink-faint uppercase">
+      <label htmlFor="workspace-switcher" className="text-xs font-medium tracking-wide text-ink-soft uppercase">
         Workspace
       </label>
       <select
