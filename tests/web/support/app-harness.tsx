@@ -1,9 +1,12 @@
-import { render } from '@testing-library/react';
+import { configure, render } from '@testing-library/react';
 import { RouterProvider, createMemoryRouter } from 'react-router-dom';
 import { vi } from 'vitest';
 import { Providers } from '@/app/providers';
 import { routes } from '@/app/router';
 import { queryClient } from '@/lib/query-client';
+
+// Lazy route modules are compiled on first use in a test run; give the first render time.
+configure({ asyncUtilTimeout: 5000 });
 
 /** One request the app made, as the stub saw it. */
 export interface SeenRequest {
