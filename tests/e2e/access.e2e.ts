@@ -87,6 +87,25 @@ describe('who sees what', () => {
       )
       .toContain(invitee);
 
+    // The invitee follows the link from the mail: signs in with that address and joins as a reviewer.
+    const link = /\/invite\/[A-Za-z0-9_.~-]+/.exec((await mailbox.textContent()) ?? '')?.[0];
+    expect(link).toBeTruthy();
+    const invited = await newSession(browser);
+    await invited.page.goto(link!);
+    await invited.page.getByText('invited').first().waitFor();
+    expect(await invited.page.getByRole('main').textContent()).toContain('Demo group');
+    await shot(invited.page, 'web-invitation');
+    await invited.page.getByRole('link', { name: 'Sign in to accept' }).click();
+    await invited.page.getByRole('link', { name: 'Sign in with GitHub' }).click();
+    await invited.page.getByRole('textbox', { name: 'Login', exact: true }).fill(invitee.split('@')[0]);
+    await invited.page.getByRole('textbox', { name: /^E-mail/ }).fill(invitee);
+    await invited.page.getByRole('button', { name: 'Continue as this login' }).click();
+    await invited.page.getByRole('button', { name: 'Accept and open the workspace' }).click();
+    await invited.page.getByRole('heading', { name: 'Batches' }).waitFor();
+    expect(new URL(invited.page.url()).pathname).toBe('/w/demo');
+    expect(await invited.page.getByRole('complementary').getByText('Your role:').locator('..').textContent()).toContain('reviewer');
+    await invited.context.close();
+
     // A token is shown once, with the warning, and works as a Bearer token.
     await page.getByRole('textbox', { name: 'Label' }).fill('browser test');
     await page.getByRole('button', { name: 'Create token' }).click();
