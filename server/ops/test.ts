@@ -82,6 +82,7 @@ function summarise(): { passed: number; failed: number; skipped: number } {
 }
 
 async function finish(code: number, why?: string): Promise<never> {
+  if (finishing) return new Promise<never>(() => {});
   finishing = true;
   if (why) say(why);
   await cleanUp().catch(reportError);
@@ -185,6 +186,7 @@ async function main() {
   say('vitest: engine, API (real PostgreSQL), worker (real Redis), web, browser (Chromium)');
   const report = join(dirs.stateDir, 'vitest-report.json');
   const vitestCode = await step(process.execPath, [bin('vitest/vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], env);
+  if (finishing) return;
   const counts = vitestCounts(report);
   if (counts) {
     results.push({

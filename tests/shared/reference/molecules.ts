@@ -676,16 +676,6 @@ function m30(): Built {
   };
 }
 
-/**
- * Orbit construction for #34/#35: the central atom(s), then for every group element g (in a
- * fixed order) the images g·seed of each seed, so atom k of every orbit belongs to the same g.
- */
-function orbitsByElement(group: readonly Mat3[], seeds: [string, Vec3][]): { b: Builder; idx: number[][] } {
-  const b = new Builder();
-  const idx = seeds.map(([el, s]) => group.map((g) => b.add(el, matVec(g, s))));
-  return { b, idx };
-}
-
 function m34(): Built {
   const s4 = closeGroup([improper(Z, 4)]);
   const o0 = scale(TETRAHEDRAL[0], 1.63);
