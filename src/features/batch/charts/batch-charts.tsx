@@ -53,7 +53,7 @@ function GroupsChart({ batch }: { batch: BatchDetail }) {
             <ResponsiveContainer width="100%" height="100%" initialDimension={{ width: 520, height: 208 }}>
               <BarChart data={data} margin={{ top: 8, right: 8, bottom: 4, left: 0 }}>
                 <CartesianGrid vertical={false} stroke={RULE} />
-                <XAxis dataKey="group" tick={tick} interval={0} />
+                <XAxis dataKey="group" tick={{ ...tick, fontSize: data.length > 12 ? 10 : 11 }} interval={0} angle={data.length > 8 ? -40 : 0} textAnchor={data.length > 8 ? 'end' : 'middle'} height={data.length > 8 ? 40 : 24} />
                 <YAxis allowDecimals={false} tick={tick} width={40} />
                 <Tooltip formatter={(v) => [formatCount(Number(v)), 'structures']} />
                 <Bar dataKey="count" fill={LAPIS} radius={[3, 3, 0, 0]} isAnimationActive={false} />

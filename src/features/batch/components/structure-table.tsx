@@ -15,7 +15,7 @@ import { focusRing } from '@/components/ui/focus';
 import { GroupBadge } from '@/components/ui/group-badge';
 import { StatusPill } from '@/components/ui/status-pill';
 import { cx } from '@/lib/cx';
-import { formatAngstrom, formatDecimal } from '@/lib/format';
+import { formatDecimal } from '@/lib/format';
 import type { StructureListQuery } from '../api/get-batch-structures';
 import { FLAG_LABELS, REVIEW_LABELS } from '../labels';
 
@@ -29,8 +29,11 @@ const ROW_HEIGHT = 41;
 
 const column = createColumnHelper<StructureRow>();
 
-function num(value: number | null, digits = 4) {
-  return formatAngstrom(value, digits);
+/** A length in Å without the unit (the header carries it), compact so the table fits 1280 px. */
+function num(value: number | null) {
+  if (value === null || !Number.isFinite(value)) return '—';
+  if (value !== 0 && Math.abs(value) < 1e-4) return value.toExponential(1);
+  return value.toFixed(4);
 }
 
 /**
@@ -83,7 +86,7 @@ export function StructureTable({
       column.accessor('name', {
         header: 'Structure',
         cell: ({ row }) => (
-          <div className="flex min-w-40 flex-col">
+          <div className="flex min-w-36 flex-col">
             <Link to={`/w/${encodeURIComponent(slug)}/structures/${encodeURIComponent(row.original.id)}`} className={cx('font-medium text-lapis hover:underline', focusRing)}>
               {row.original.name}
             </Link>
@@ -98,11 +101,6 @@ export function StructureTable({
       column.accessor('perceivedGroup', { header: 'Perceived', cell: (c) => <GroupBadge group={c.getValue()} /> }),
       column.accessor('pointGroup', { header: 'Chosen', cell: (c) => <GroupBadge group={c.getValue()} /> }),
       column.accessor('computationalSubgroup', { header: 'Subgroup', cell: (c) => <GroupBadge group={c.getValue()} /> }),
-      column.accessor('symmetryRmsdBefore', { header: 'Sym. RMSD before', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
-      column.accessor('symmetryRmsdAfter', { header: 'Sym. RMSD after', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
-      column.accessor('displacementRmsd', { header: 'Displ. RMSD', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
-      column.accessor('maxDisplacement', { header: 'Max displ.', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
-      column.accessor('csm', { header: 'CSM', meta: { numeric: true }, cell: (c) => formatDecimal(c.getValue(), 4) }),
       column.accessor('flags', {
         header: 'Flags',
         cell: ({ row }) => <RowFlags row={row.original} />,
@@ -111,6 +109,11 @@ export function StructureTable({
         header: 'Review',
         cell: (c) => <Badge tone={REVIEW_LABELS[c.getValue()].tone}>{REVIEW_LABELS[c.getValue()].label}</Badge>,
       }),
+      column.accessor('maxDisplacement', { header: 'Max displ. (Å)', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
+      column.accessor('displacementRmsd', { header: 'Displ. RMSD (Å)', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
+      column.accessor('symmetryRmsdBefore', { header: 'Sym. RMSD before (Å)', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
+      column.accessor('symmetryRmsdAfter', { header: 'Sym. RMSD after (Å)', meta: { numeric: true }, cell: (c) => num(c.getValue()) }),
+      column.accessor('csm', { header: 'CSM', meta: { numeric: true }, cell: (c) => formatDecimal(c.getValue(), 4) }),
     ],
     [slug],
   );
@@ -166,7 +169,7 @@ export function StructureTable({
                     key={header.id}
                     scope="col"
                     aria-sort={active ? (query.dir === 'asc' ? 'ascending' : 'descending') : sortable ? 'none' : undefined}
-                    className={cx('px-3 py-2.5 whitespace-nowrap', numeric && 'text-right', id === 'select' && 'w-10')}
+                    className={cx('px-2.5 py-2.5 align-bottom', numeric ? 'text-right' : 'whitespace-nowrap', id === 'select' && 'w-10')}
                   >
                     {sortable ? (
                       <SortButton
@@ -196,7 +199,7 @@ export function StructureTable({
               {row.getVisibleCells().map((cell) => {
                 const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                 return (
-                  <td key={cell.id} className={cx('px-3 py-2', numeric && 'num text-right whitespace-nowrap')}>
+                  <td key={cell.id} className={cx('px-2.5 py-2', numeric && 'num text-right whitespace-nowrap')}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 );

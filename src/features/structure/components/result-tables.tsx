@@ -5,7 +5,7 @@ import { cx } from '@/lib/cx';
 import { formatAngstrom } from '@/lib/format';
 
 const coord = (v: number) => v.toFixed(6);
-const axisText = (a: readonly number[]) => `(${a.map((v) => (Math.abs(v) < 5e-7 ? 0 : v).toFixed(4)).join(', ')})`;
+const axisText = (a: readonly number[]) => `(${a.map((v) => (Math.abs(v) < 5e-5 ? 0 : v).toFixed(3)).join(', ')})`;
 const ROWS_COLLAPSED = 40;
 
 function Card({ title, id, children, note }: { title: string; id: string; children: ReactNode; note?: ReactNode }) {

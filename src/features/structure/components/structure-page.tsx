@@ -1,8 +1,11 @@
-import { lazy, Suspense, useState } from 'react';
+import { lazy, Suspense, useEffect, useId, useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { StructureDetail } from '@shared/contracts/api';
 import type { StructureResult } from '@shared/contracts/structure';
+import { allowedTargets } from '@shared/engine';
 import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { inputClass } from '@/components/ui/field';
 import { focusRing } from '@/components/ui/focus';
 import { GroupBadge } from '@/components/ui/group-badge';
 import { PageHeader } from '@/components/ui/page-header';
@@ -27,7 +30,12 @@ const LadderChart = lazy(() => import('../ladder/ladder-chart').then((m) => ({ d
 export function StructurePage({ slug, structureId }: { slug: string; structureId: string }) {
   const { role } = useCurrentWorkspace();
   const structure = useStructure(slug, structureId);
-  const result = structure.result;
+  // While a re-snap runs the API has no result; keep showing the previous one (labelled as such).
+  const [previous, setPrevious] = useState<StructureResult | null>(structure.result);
+  useEffect(() => {
+    if (structure.result) setPrevious(structure.result);
+  }, [structure.result]);
+  const result = structure.result ?? (isLive(structure.status) ? previous : null);
   const budget = structure.settings.displacementBudget;
   const batchLink = `/w/${encodeURIComponent(slug)}/batches/${encodeURIComponent(structure.batchId)}`;
 
@@ -74,7 +82,7 @@ export function StructurePage({ slug, structureId }: { slug: string; structureId
           <Metrics result={result} budget={budget} />
           <ViewerPanel result={result} inputAtoms={structure.inputAtoms} />
           <LadderSection slug={slug} structure={structure} result={result} canResnap={canWrite(role)} />
-          <div className="grid gap-4 lg:grid-cols-2">
+          <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
             <OperationsTable result={result} />
             <EquivalenceClasses result={result} />
           </div>
@@ -151,7 +159,12 @@ function Metrics({ result, budget }: { result: StructureResult; budget: number }
 function LadderSection({ slug, structure, result, canResnap }: { slug: string; structure: StructureDetail; result: StructureResult; canResnap: boolean }) {
   const resnap = useResnapStructure(slug, structure.batchId, structure.id);
   const [queued, setQueued] = useState<string | null>(null);
-  const pending = resnap.isPending ? (resnap.variables ?? null) : isLive(structure.status) ? (queued ?? '') : null;
+  const live = isLive(structure.status);
+  const pending = resnap.isPending ? (resnap.variables ?? null) : live ? (queued ?? '') : null;
+  const pick = (group: string) => resnap.mutate(group, { onSuccess: () => setQueued(group) });
+  // Any subgroup of the perceived group is allowed too (the same rule the server applies).
+  const onLadder = new Set(result.ladder.map((r) => r.group));
+  const others = allowedTargets(result).filter((g) => !onLadder.has(g) && g !== result.pointGroup);
   return (
     <section aria-labelledby="ladder-h" className="flex flex-col gap-3 rounded-lg border border-rule bg-card p-4">
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -160,26 +173,61 @@ function LadderSection({ slug, structure, result, canResnap }: { slug: string; s
         </h2>
         <span className="text-xs text-ink-faint">pick another rung to re-snap this structure to that group</span>
       </div>
-      <div className="grid gap-4 xl:grid-cols-2">
-        <div className="h-64 min-w-0">
+      <div className="grid gap-4 2xl:grid-cols-2">
+        <div className="h-60 min-w-0">
           {result.ladder.length > 0 && (
             <Suspense fallback={<Spinner label="Loading the chart" />}>
               <LadderChart ladder={result.ladder} chosen={result.pointGroup} tolerance={result.tolerance} />
             </Suspense>
           )}
         </div>
-        <LadderControl
-          ladder={result.ladder}
-          chosen={result.pointGroup}
-          tolerance={result.tolerance}
-          budget={structure.settings.displacementBudget}
-          canResnap={canResnap}
-          pending={pending}
-          onPick={(group) => resnap.mutate(group, { onSuccess: () => setQueued(group) })}
-        />
+        <div className="flex flex-col gap-3">
+          <LadderControl
+            ladder={result.ladder}
+            chosen={result.pointGroup}
+            tolerance={result.tolerance}
+            budget={structure.settings.displacementBudget}
+            canResnap={canResnap}
+            pending={pending}
+            onPick={pick}
+          />
+          {others.length > 0 && <SubgroupPicker groups={others} disabled={!canResnap || pending !== null} onPick={pick} />}
+        </div>
       </div>
-      {resnap.isSuccess && queued && <p role="status" className="text-sm text-moss">Re-snap to {queued} queued.</p>}
+      {queued && live && <p role="status" className="text-sm text-lapis-deep">Re-snap to {queued} queued; this page updates when it is done.</p>}
+      {queued && !live && result.pointGroup === queued && <p role="status" className="text-sm text-moss">Re-snapped to {queued}.</p>}
       {resnap.error && <InlineError>Re-snap failed: {resnap.error.message}</InlineError>}
     </section>
+  );
+}
+
+/** Snap to a subgroup of the perceived group that is not on the ladder. */
+function SubgroupPicker({ groups, disabled, onPick }: { groups: string[]; disabled: boolean; onPick: (group: string) => void }) {
+  const id = useId();
+  const [group, setGroup] = useState(groups[0]);
+  return (
+    <form
+      className="flex flex-wrap items-end gap-2 border-t border-rule pt-3"
+      onSubmit={(e) => {
+        e.preventDefault();
+        onPick(group);
+      }}
+    >
+      <div className="flex flex-col gap-1">
+        <label htmlFor={id} className="text-xs font-medium text-ink-soft">
+          Or a subgroup of the perceived group
+        </label>
+        <select id={id} value={group} onChange={(e) => setGroup(e.target.value)} className={cx(inputClass, 'w-36')}>
+          {groups.map((g) => (
+            <option key={g} value={g}>
+              {g}
+            </option>
+          ))}
+        </select>
+      </div>
+      <Button type="submit" variant="secondary" disabled={disabled}>
+        Snap to {group}
+      </Button>
+    </form>
   );
 }

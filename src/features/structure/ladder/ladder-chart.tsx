@@ -23,7 +23,7 @@ export function LadderChart({ ladder, chosen, tolerance }: { ladder: LadderRungJ
   return (
     <div className="h-full w-full" aria-hidden>
       <ResponsiveContainer width="100%" height="100%" initialDimension={{ width: 520, height: 208 }}>
-        <BarChart data={data} layout="vertical" margin={{ top: 8, right: 96, bottom: 18, left: 4 }}>
+        <BarChart data={data} layout="vertical" margin={{ top: 20, right: 96, bottom: 18, left: 4 }}>
           <CartesianGrid horizontal={false} stroke={RULE} />
           <XAxis
             type="number"

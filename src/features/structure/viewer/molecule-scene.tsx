@@ -165,6 +165,8 @@ function Axes({ model }: { model: SceneModel }) {
 
 function Planes({ model }: { model: SceneModel }) {
   const radius = model.radius + 0.6;
+  // Many planes (Oh has nine) would turn the molecule milky: share one overall haze between them.
+  const opacity = Math.min(PLANE_OPACITY, Math.max(0.06, 0.6 / model.elements.planes.length));
   return (
     <>
       {model.elements.planes.map((plane, k) => {
@@ -174,7 +176,7 @@ function Planes({ model }: { model: SceneModel }) {
           <group key={k} position={model.centre} quaternion={q}>
             <mesh renderOrder={1}>
               <circleGeometry args={[radius, 64]} />
-              <meshBasicMaterial color={colour} transparent opacity={PLANE_OPACITY} side={THREE.DoubleSide} depthWrite={false} />
+              <meshBasicMaterial color={colour} transparent opacity={opacity} side={THREE.DoubleSide} depthWrite={false} />
             </mesh>
             <mesh renderOrder={2}>
               <ringGeometry args={[radius - 0.03, radius, 64]} />

@@ -2,6 +2,9 @@ import type { AtomJson, StructureResult } from '@shared/contracts/structure';
 import { arrowScale, displacementArrows, type Arrow } from './arrows';
 import { applyTransform, centreOfMass, extent, perceiveBonds, type Transform, type Vec3 } from './geometry';
 
+/** Displacements shorter than this (Å) get no arrow: numerically zero after a snap of an already exact geometry. */
+export const MIN_ARROW = 1e-6;
+
 /** What the 3D view shows, computed once from a structure (pure: no three.js). */
 export interface SceneModel {
   atoms: AtomJson[];
@@ -27,15 +30,16 @@ export function buildSceneModel(
   const atoms = result.atoms;
   const aligned = inputAtoms.length === atoms.length ? applyTransform(inputAtoms, result.transform) : [];
   // Scale from the arrows actually drawn (aligned input → output), so the longest one is visible.
-  const raw = displacementArrows(aligned, atoms, 1);
-  const longest = raw.reduce((m, a) => Math.max(m, a.length), 0) || result.maxDisplacement;
-  const scale = arrowScale(longest);
+  // Below MIN_ARROW Å there is nothing a chemist could see or care about: no arrows, factor 1.
+  const raw = displacementArrows(aligned, atoms, 1, MIN_ARROW);
+  const longest = raw.reduce((m, a) => Math.max(m, a.length), 0);
+  const scale = raw.length ? arrowScale(longest) : 1;
   const centre = centreOfMass(atoms);
   return {
     atoms,
     bonds: perceiveBonds(atoms),
     aligned,
-    arrows: displacementArrows(aligned, atoms, scale),
+    arrows: displacementArrows(aligned, atoms, scale, MIN_ARROW),
     arrowScale: scale,
     centre,
     radius: extent(atoms, centre),

@@ -84,12 +84,18 @@ export function ViewerPanel({ result, inputAtoms, webgl }: { result: StructureRe
           <Switch label={`Mirror planes (${planes.length})`} checked={layers.planes} onChange={toggle('planes')} disabled={planes.length === 0} />
           <Switch label="Centre of inversion" checked={layers.inversion} onChange={toggle('inversion')} disabled={!inversionCentre} />
           <Switch label="Input geometry (before), as wireframe" checked={layers.overlay} onChange={toggle('overlay')} disabled={model.aligned.length === 0} />
-          <Switch label={`Displacement arrows (×${model.arrowScale.toLocaleString('en-GB')})`} checked={layers.arrows} onChange={toggle('arrows')} disabled={model.arrows.length === 0} />
+          <Switch label={model.arrows.length ? `Displacement arrows (×${model.arrowScale.toLocaleString('en-GB')})` : 'Displacement arrows'} checked={layers.arrows} onChange={toggle('arrows')} disabled={model.arrows.length === 0} />
         </fieldset>
-        <p className="text-xs text-ink-soft">
-          Arrows run from each input atom to its snapped position, drawn <strong className="num">{model.arrowScale.toLocaleString('en-GB')}×</strong> their
-          true length; the longest true displacement is <span className="num">{formatAngstrom(result.maxDisplacement)}</span>.
-        </p>
+        {model.arrows.length > 0 ? (
+          <p className="text-xs text-ink-soft">
+            Arrows run from each input atom to its snapped position, drawn <strong className="num">{model.arrowScale.toLocaleString('en-GB')}×</strong> their
+            true length; the longest true displacement is <span className="num">{formatAngstrom(result.maxDisplacement)}</span>.
+          </p>
+        ) : (
+          <p className="text-xs text-ink-soft">
+            No atom moved by as much as <span className="num">10⁻⁶ Å</span>: there are no displacement arrows to draw.
+          </p>
+        )}
         <div className="flex flex-col gap-1.5">
           <h3 className="text-xs font-semibold tracking-wide text-ink-soft uppercase">Key</h3>
           <ul className="flex flex-col gap-1 text-xs text-ink">
