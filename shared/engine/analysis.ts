@@ -52,18 +52,13 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const store = createOpStore(mol, tol);
   const line = bestLine(mol.y);
   const lineResidual = mol.n <= 2 ? 0 : 2 * line.maxDistance;
+  // The inversion is matched directly (not taken from the candidates): near a line, a fitted
+  // improper operation with the inversion's pairing may come out as the mirror ⊥ the line.
   const inv = new Int32Array(mol.n);
-  const invRes = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
+  const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
+  const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return {
-    mol,
-    store,
-    lineDirection: line.direction,
-    lineResidual,
-    inversionPerm: Number.isFinite(invRes) ? inv : null,
-    inversionResidual: invRes,
-    cache: new Map(),
-  };
+  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map() };
 }
 
 /**

@@ -1,6 +1,5 @@
 import { principalAxes } from './inertia';
 import {
-  canonicalDirection,
   cross3,
   dot3,
   improper3,
@@ -28,7 +27,8 @@ import { addOperation, refineOperation, type OpStore } from './op-store';
  *   the ring sizes around the axis (n divides every ring of off-axis atoms);
  * - C₂ axes and mirror planes from the smallest non-axial shell with reference atoms r₀, r₁: a C₂
  *   sending r₀ to r_j has its axis along r₀ + r_j (or ⊥ r₀ when r_j = −r₀, then found from r₁
- *   or from r₀ × r₁); a mirror sending r₀ to r_j has normal r₀ − r_j (or contains r₀ …);
+ *   or along r₀ × r₁); a mirror sending r₀ to r_j ≠ r₀ has normal r₀ − r_j (or contains r₀, then
+ *   found from r₁ or along r₀ × r₁);
  * - for cubic and icosahedral structures, C₃/C₄/C₅ axes placed relative to each triple of
  *   mutually perpendicular C₂ axes (body diagonals, coordinate axes, (0, ±1, ±φ)).
  * Products of operations (closure) are formed later, on demand (op-store `product`).
@@ -57,9 +57,10 @@ export function generateCandidates(store: OpStore): void {
   };
   // Each (operation type, direction) is tried once; directions within ~5e-4 rad count as equal.
   const once = (tag: number, d: Vec3): boolean => {
-    const c = canonicalDirection(d);
-    const q = (v: number) => Math.round(v * 2000) + 2000;
-    const k = ((tag * 4001 + q(c[0])) * 4001 + q(c[1])) * 4001 + q(c[2]);
+    // sign-canonical without allocating: flip so that the first clearly non-zero component is positive
+    const s = Math.abs(d[0]) > 1e-9 ? Math.sign(d[0]) : Math.abs(d[1]) > 1e-9 ? Math.sign(d[1]) : Math.sign(d[2]) || 1;
+    const q = (v: number) => Math.round(v * s * 2000) + 2000;
+    const k = ((tag * 4001 + q(d[0])) * 4001 + q(d[1])) * 4001 + q(d[2]);
     if (tested.has(k)) return false;
     tested.add(k);
     return true;
@@ -80,7 +81,8 @@ export function generateCandidates(store: OpStore): void {
   tryMatrix(inversion3(), -1);
 
   const shells = buildShells(store);
-  const highOrderAxes: Vec3[] = principalAxes(y, mol.masses).axes;
+  const inertia = principalAxes(y, mol.masses);
+  const highOrderAxes: Vec3[] = [...inertia.axes];
   const pairShells: number[][] = [];
   // Shells from the smallest: axial ones only add directions; the first non-axial shell (and a
   // second one when the first has at most 3 atoms) supplies the pair-derived candidates.
@@ -96,27 +98,36 @@ export function generateCandidates(store: OpStore): void {
   const ringAtoms = n <= 4000 ? null : shells.slice(0, 8).flat();
   for (const a of highOrderAxes) {
     const d = normalize3(a);
-    if (!d) continue;
+    if (!d || !once(99, d)) continue;
     testAxis(d, possibleOrders(store, d, ringAtoms));
     testMirror(d);
   }
   for (const shell of pairShells) {
     const refs = referenceAtoms(y, shell, tol);
-    refs.forEach((r, k) => {
-      const ri = atomVector(y, r);
-      for (const j of shell) {
-        const rj = atomVector(y, j);
-        testAxis(normalize3([ri[0] + rj[0], ri[1] + rj[1], ri[2] + rj[2]], tol), [2]);
-        if (j !== r) testMirror(normalize3([ri[0] - rj[0], ri[1] - rj[1], ri[2] - rj[2]], tol));
-        if (k === 0) {
-          const c = normalize3(cross3(ri, rj), tol * tol);
-          testAxis(c, [2]);
-          testMirror(c);
-        }
-      }
-    });
+    const r0 = atomVector(y, refs[0]);
+    for (const j of shell) {
+      const rj = atomVector(y, j);
+      testAxis(normalize3([r0[0] + rj[0], r0[1] + rj[1], r0[2] + rj[2]], tol), [2]);
+      if (j !== refs[0]) testMirror(normalize3([r0[0] - rj[0], r0[1] - rj[1], r0[2] - rj[2]], tol));
+    }
+    if (refs.length < 2) continue;
+    // Operations that send r₀ to −r₀ (C₂ ⊥ r₀) or keep it (mirror containing r₀) are found from
+    // r₁, among directions ⊥ r₀ only; those that also do so to r₁ lie along r₀ × r₁.
+    const r1 = atomVector(y, refs[1]);
+    const perpendicular = (d: Vec3 | null) => (d && Math.abs(dot3(d, r0)) <= 2 * tol ? d : null);
+    for (const j of shell) {
+      const rj = atomVector(y, j);
+      testAxis(perpendicular(normalize3([r1[0] + rj[0], r1[1] + rj[1], r1[2] + rj[2]], tol)), [2]);
+      if (j !== refs[1]) testMirror(perpendicular(normalize3([r1[0] - rj[0], r1[1] - rj[1], r1[2] - rj[2]], tol)));
+    }
+    const c = normalize3(cross3(r0, r1));
+    testAxis(c, [2]);
+    testMirror(c);
   }
-  augmentCubic(store, testAxis);
+  // Cubic and icosahedral groups force an isotropic inertia tensor; skip the extra axes unless
+  // the moments agree within 20 % (loose enough for structures 0.3 Å from such symmetry).
+  const { moments } = inertia;
+  if (moments[2] - moments[0] <= 0.2 * moments[2]) augmentCubic(store, testAxis);
 }
 
 /** Atoms probed before a full match: the two anchors, then atoms spread over the structure. */
@@ -205,28 +216,31 @@ export const MAX_AXIS_ORDER = 32;
 function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number[] {
   const { y, kinds } = store.mol;
   const tol = store.tol;
-  const list = atoms ?? Array.from({ length: store.mol.n }, (_, i) => i);
-  const items: { kind: number; h: number }[] = [];
-  for (const i of list) {
-    const v = atomVector(y, i);
-    const h = dot3(v, d);
-    const rho2 = dot3(v, v) - h * h;
-    if (rho2 > tol * tol) items.push({ kind: kinds[i], h });
+  const count = atoms ? atoms.length : store.mol.n;
+  // One sortable number per off-axis atom: element id · 1e7 + height (|height| < 1e6 Å).
+  const keys = new Float64Array(count);
+  let m = 0;
+  for (let k = 0; k < count; k++) {
+    const i = atoms ? atoms[k] : k;
+    const x = y[3 * i];
+    const v = y[3 * i + 1];
+    const z = y[3 * i + 2];
+    const h = x * d[0] + v * d[1] + z * d[2];
+    if (x * x + v * v + z * z - h * h > tol * tol) keys[m++] = kinds[i] * 1e7 + h;
   }
-  if (items.length === 0) return [2];
-  items.sort((a, b) => a.kind - b.kind || a.h - b.h);
+  if (m === 0) return [2];
+  const sorted = keys.subarray(0, m).sort();
   let g = 0;
-  let count = 0;
-  for (let k = 0; k < items.length; k++) {
-    count++;
-    const next = items[k + 1];
-    if (!next || next.kind !== items[k].kind || next.h - items[k].h > tol) {
-      g = gcdInt(g, count);
-      count = 0;
+  let run = 1;
+  for (let k = 1; k <= m; k++) {
+    if (k < m && sorted[k] - sorted[k - 1] <= tol) run++;
+    else {
+      g = gcdInt(g, run);
+      run = 1;
     }
   }
   const out: number[] = [];
-  for (let m = 2; m <= Math.min(g, MAX_AXIS_ORDER); m++) if (g % m === 0) out.push(m);
+  for (let n = 2; n <= Math.min(g, MAX_AXIS_ORDER); n++) if (g % n === 0) out.push(n);
   return out;
 }
 
@@ -244,10 +258,10 @@ function augmentCubic(store: OpStore, testAxis: (d: Vec3 | null, orders: readonl
   if (c2.length < 3) return;
   const phi = (1 + Math.sqrt(5)) / 2;
   let triples = 0;
-  for (let a = 0; a < c2.length && triples < 6; a++) {
-    for (let b = a + 1; b < c2.length && triples < 6; b++) {
+  for (let a = 0; a < c2.length && triples < 2; a++) {
+    for (let b = a + 1; b < c2.length && triples < 2; b++) {
       if (Math.abs(dot3(c2[a], c2[b])) > 0.1) continue;
-      for (let c = b + 1; c < c2.length && triples < 6; c++) {
+      for (let c = b + 1; c < c2.length && triples < 2; c++) {
         if (Math.abs(dot3(c2[a], c2[c])) > 0.1 || Math.abs(dot3(c2[b], c2[c])) > 0.1) continue;
         triples++;
         const ex = c2[a];

@@ -53,10 +53,20 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
   const numbers = new Int32Array(n);
   const kindIndex = new Map<string, number>();
   const kindSymbols: string[] = [];
+  const kindMass: number[] = [];
+  const kindNumber: number[] = [];
   const x = new Float64Array(3 * n);
+  const known = new Map<string, string | null>();
   for (let i = 0; i < n; i++) {
     const a = atoms[i];
-    const sym = a && typeof a.element === 'string' ? normalizeElement(a.element) : null;
+    let sym: string | null = null;
+    if (a && typeof a.element === 'string') {
+      sym = known.get(a.element) ?? null;
+      if (sym === null) {
+        sym = normalizeElement(a.element);
+        known.set(a.element, sym);
+      }
+    }
     if (sym == null) {
       throw new EngineError('unknown-element', `atom ${i + 1}: unknown element '${String(a?.element ?? '')}'`);
     }
@@ -66,10 +76,12 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
       k = kindSymbols.length;
       kindIndex.set(sym, k);
       kindSymbols.push(sym);
+      kindMass.push(atomicWeight(sym));
+      kindNumber.push(atomicNumber(sym));
     }
     kinds[i] = k;
-    masses[i] = atomicWeight(sym);
-    numbers[i] = atomicNumber(sym);
+    masses[i] = kindMass[k];
+    numbers[i] = kindNumber[k];
     const c = [a.x, a.y, a.z];
     for (let d = 0; d < 3; d++) {
       const v = c[d];
@@ -101,6 +113,7 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
 
 function findCloseContact(y: Float64Array, kinds: Int32Array): PreparedMolecule['closeContact'] {
   const n = kinds.length;
+  if (n <= 150) return closeContactDirect(y, n);
   const grid = buildNeighbourGrid(y, kinds, CLOSE_CONTACT_DISTANCE);
   let best: PreparedMolecule['closeContact'] = null;
   let pairs = 0;
@@ -125,6 +138,30 @@ function findCloseContact(y: Float64Array, kinds: Int32Array): PreparedMolecule[
   }
   if (!finished) {
     throw new EngineError('bad-coordinates', `more than ${cap} atom pairs are closer than ${CLOSE_CONTACT_DISTANCE} Å: not a molecular structure`);
+  }
+  return best;
+}
+
+/** All pairs, for small structures (cheaper than building the grid). Same results and errors. */
+function closeContactDirect(y: Float64Array, n: number): PreparedMolecule['closeContact'] {
+  let best: PreparedMolecule['closeContact'] = null;
+  const r2 = CLOSE_CONTACT_DISTANCE * CLOSE_CONTACT_DISTANCE;
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const dx = y[3 * j] - y[3 * i];
+      const dy = y[3 * j + 1] - y[3 * i + 1];
+      const dz = y[3 * j + 2] - y[3 * i + 2];
+      const d2 = dx * dx + dy * dy + dz * dz;
+      if (d2 >= r2) continue;
+      const d = Math.sqrt(d2);
+      if (d < COINCIDENT_DISTANCE) {
+        throw new EngineError(
+          'coincident-atoms',
+          `atoms ${i + 1} and ${j + 1} are ${d.toExponential(2)} Å apart (closer than ${COINCIDENT_DISTANCE} Å): the same atom given twice?`,
+        );
+      }
+      if (!best || d < best.distance) best = { i, j, distance: d };
+    }
   }
   return best;
 }

@@ -1,4 +1,4 @@
-import type { PreparedMolecule } from './molecule';
+import { CLOSE_CONTACT_DISTANCE, type PreparedMolecule } from './molecule';
 import { buildNeighbourGrid } from './neighbour-grid';
 import {
   fitElement,
@@ -119,11 +119,18 @@ export function productKey(store: OpStore, g: SymOp, h: SymOp): number {
  * does not belong to a point-group element or does not survive at the store's tolerance.
  */
 export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): SymOp | null {
-  const { y } = store.mol;
+  const { y, closeContact } = store.mol;
+  // Below half the shortest same-element distance no other atom can be nearer than the partner,
+  // so the pairing is stable without a new search (no pair is closer than 0.5 Å unless flagged).
+  const stable = (closeContact ? closeContact.distance : CLOSE_CONTACT_DISTANCE) / 2;
   let p = perm;
   for (let round = 0; round < 4; round++) {
     const fit = fitElement(y, p, det);
     if (!fit) return null;
+    const r = residualWithPermutation(y, fit.matrix, p);
+    if (r < stable) {
+      return { ...fit.type, key: keyOf(store, p, det), perm: p, matrix: fit.matrix, residual: r, sig: typeSignature(fit.type) };
+    }
     const next = new Int32Array(p.length);
     const residual = matchOperation(store.ctx, fit.matrix, store.tol, next);
     if (!Number.isFinite(residual)) return null;

@@ -34,20 +34,57 @@ const C2X: Mat3 = [1, 0, 0, 0, -1, 0, 0, 0, -1];
  *    sorted by mass (heaviest first; equal masses by symbol), then by z, x, y (larger first,
  *    values within 1e-6 Å equal), and compares the (z, x, y) triples in that order — so the
  *    heaviest atoms go to +z first, then to +x.
+ * 4. Frames giving the same points (related by a rotation of the group): the atom order decides —
+ *    atom 1 as high as possible in (z, x, y), then atom 2, and so on. Snapping a structure
+ *    already in the standard frame therefore moves no atom.
+ * `rotations` are the group's proper rotations in the canonical frame (for rule 4).
  */
 export function standardOrientation(
   name: string,
   W: Float64Array,
   mol: PreparedMolecule,
   orbitOf: Int32Array,
+  rotations: readonly Mat3[],
 ): Mat3 {
-  const candidates = candidateRotations(name, W, mol, orbitOf);
-  if (candidates.length === 1) return candidates[0];
-  let pool = candidates;
-  const fam = name === 'C∞v' || name === 'D∞h' || name === 'Kh' ? null : groupFamily(name);
-  if (fam && (name === 'C2v' || name === 'D2h' || name === 'D2')) pool = mullikenFilter(name, pool, W, mol);
-  if (pool.length === 1) return pool[0];
-  return pickByKey(pool, W, mol);
+  let pool = candidateRotations(name, W, mol, orbitOf);
+  if (pool.length > 1 && (name === 'C2v' || name === 'D2h' || name === 'D2')) pool = mullikenFilter(name, pool, W, mol);
+  if (pool.length > 1) pool = pickByKey(pool, W, mol);
+  return pickByAtomOrder(pool, rotations, W);
+}
+
+/**
+ * Rule 4: frames that give the same points (they differ by a rotation of the group) are told
+ * apart by the atom order — the one putting atom 1 highest in (z, x, y), then atom 2, … wins.
+ * So snapping an output that is already in the standard frame leaves every atom where it is.
+ */
+function pickByAtomOrder(pool: readonly Mat3[], rotations: readonly Mat3[], W: Float64Array): Mat3 {
+  const n = W.length / 3;
+  let best: Mat3 | null = null;
+  for (const S of pool) {
+    for (const g of rotations) {
+      const T = mul3(S, g);
+      if (!best) {
+        best = T;
+        continue;
+      }
+      let verdict = 0;
+      for (let i = 0; i < n && verdict === 0; i++) {
+        const p = W[3 * i];
+        const q = W[3 * i + 1];
+        const r = W[3 * i + 2];
+        for (const row of [2, 0, 1]) {
+          const diff =
+            T[3 * row] * p + T[3 * row + 1] * q + T[3 * row + 2] * r - (best[3 * row] * p + best[3 * row + 1] * q + best[3 * row + 2] * r);
+          if (Math.abs(diff) > EPS) {
+            verdict = diff > 0 ? 1 : -1;
+            break;
+          }
+        }
+      }
+      if (verdict > 0) best = T;
+    }
+  }
+  return best ?? identity3();
 }
 
 function rz(angle: number): Mat3 {
@@ -228,8 +265,8 @@ function compareTuples(a: readonly number[], b: readonly number[]): number {
   return 0;
 }
 
-/** The candidate with the largest canonical key (rule 3 of {@link standardOrientation}). */
-function pickByKey(pool: Mat3[], W: Float64Array, mol: PreparedMolecule): Mat3 {
+/** The candidates with the largest canonical key (rule 3 of {@link standardOrientation}). */
+function pickByKey(pool: Mat3[], W: Float64Array, mol: PreparedMolecule): Mat3[] {
   // Compare element by element, heaviest first: usually the heaviest element decides.
   const groups = new Map<number, number[]>();
   for (let i = 0; i < mol.n; i++) {
@@ -255,7 +292,7 @@ function pickByKey(pool: Mat3[], W: Float64Array, mol: PreparedMolecule): Mat3 {
     }
     alive = next;
   }
-  return alive[0];
+  return alive;
 }
 
 /** (z, x, y) of the atoms after rotation S, sorted descending (values within EPS equal), flattened. */

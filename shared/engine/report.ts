@@ -33,7 +33,8 @@ export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
   const orbitOf = new Int32Array(a.mol.n);
   const properPerms = fit.perms.filter((_, k) => fit.ideal.elements[k].det > 0);
   equivalenceClasses(a.mol.n, properPerms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
-  const S = standardOrientation(fit.name, fit.W, a.mol, orbitOf);
+  const rotations = fit.ideal.elements.filter((e) => e.det > 0).map((e) => e.matrix);
+  const S = standardOrientation(fit.name, fit.W, a.mol, orbitOf, rotations);
   const labels = labelElements(fit.ideal.name, fit.ideal, S);
   return { fit, S, labels };
 }
@@ -261,6 +262,18 @@ function fmt(x: number): string {
   return x === 0 ? '0' : x < 1e-3 ? x.toExponential(1) : String(Number(x.toPrecision(2)));
 }
 
+const DEFAULT_SETTINGS = snapSettingsSchema.parse({});
+
+function parseSettings(settings: Partial<SnapSettings> | undefined): SnapSettings {
+  if (!settings || Object.keys(settings).length === 0) return DEFAULT_SETTINGS;
+  const parsed = snapSettingsSchema.safeParse(settings);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    throw new EngineError('bad-settings', `settings.${issue.path.join('.')}: ${issue.message}`);
+  }
+  return parsed.data;
+}
+
 /**
  * The whole pipeline for one structure: perceive at `settings.tolerance`, build the ladder,
  * choose the target (`perceived`; `computational` = the D2h-type subgroup; or a named group that
@@ -274,12 +287,7 @@ function fmt(x: number): string {
  * settings ('bad-settings').
  */
 export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>): StructureResult {
-  const parsed = snapSettingsSchema.safeParse(settings ?? {});
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    throw new EngineError('bad-settings', `settings.${issue.path.join('.')}: ${issue.message}`);
-  }
-  const s = parsed.data;
+  const s = parseSettings(settings);
   const tol = s.tolerance;
   const mol = prepareMolecule(molecule.atoms);
   const a = analyse(mol, 2 * tol);

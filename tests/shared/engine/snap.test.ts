@@ -47,10 +47,13 @@ describe('every finite family, from a noisy, moved and re-ordered synthetic orbi
     expect(a.symmetryRmsdAfter).toBeLessThanOrEqual(1e-10);
     expect(invarianceError(a)).toBeLessThan(1e-10);
     expect(a.maxDisplacement).toBeLessThan(0.004);
-    // Idempotent: snapping the output again (kept in its frame) moves nothing.
+    // Idempotent: snapping the output again (kept in its frame) moves nothing…
     const again = snap(input(a.atoms), { frame: 'input' });
     expect(again.pointGroup).toBe(name);
     expect(again.maxDisplacement).toBeLessThan(1e-10);
+    // …and the standard frame is a fixed point atom by atom, not only as a point set.
+    const std = snap(input(a.atoms));
+    std.atoms.forEach((p, i) => expect(Math.hypot(p.x - a.atoms[i].x, p.y - a.atoms[i].y, p.z - a.atoms[i].z)).toBeLessThan(1e-10));
     // Another orientation, position, atom order and noise draw lands on the same points.
     const b = snap(input(scramble(ideal, 202).atoms));
     const c = snap(input(scramble(ideal, 303).atoms));
