@@ -1,4 +1,5 @@
 import { useEffect, useId, useState, type ReactNode } from 'react';
+import { useLocation, useNavigation } from 'react-router-dom';
 import { flagCodes } from '@shared/contracts/structure';
 import { inputClass } from '@/components/ui/field';
 import { cx } from '@/lib/cx';
@@ -18,11 +19,16 @@ const SEARCH_DEBOUNCE = 300;
 export function TableFilters({ batch, query, onChange }: { batch: BatchDetail; query: StructureListQuery; onChange: (patch: QueryPatch) => void }) {
   const [text, setText] = useState(query.q ?? '');
   useEffect(() => setText(query.q ?? ''), [query.q]);
+  // Leaving the page (a structure link clicked while typing) drops the pending search, which
+  // would otherwise navigate back here.
+  const navigation = useNavigation();
+  const { pathname } = useLocation();
+  const leaving = navigation.state !== 'idle' && navigation.location?.pathname !== pathname;
   useEffect(() => {
-    if ((query.q ?? '') === text) return;
+    if ((query.q ?? '') === text || leaving) return;
     const t = setTimeout(() => onChange({ q: text || undefined, page: 1 }), SEARCH_DEBOUNCE);
     return () => clearTimeout(t);
-  }, [text, query.q, onChange]);
+  }, [text, query.q, onChange, leaving]);
 
   return (
     <div role="search" aria-label="Filter structures" className="flex flex-wrap items-end gap-3">
