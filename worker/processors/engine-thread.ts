@@ -1,6 +1,6 @@
-import { snapStructure, type SnapTaskInput, type SnapTaskOutput } from '../../server/modules/batches/snap-structure';
+import { snapStructureStorable, type SnapTaskInput, type SnapTaskStorableOutput } from '../../server/modules/batches/snap-structure';
 
-/** Runs inside an engine thread (see thread-pool.ts): one snap per message. */
-export function handleTask(input: SnapTaskInput): SnapTaskOutput {
-  return snapStructure(input);
+/** Runs inside an engine thread (see thread-pool.ts): one snap per message, the result as JSON text. */
+export function handleTask(input: SnapTaskInput): SnapTaskStorableOutput {
+  return snapStructureStorable(input);
 }

@@ -7,7 +7,7 @@ import type { Config } from '../../server/config';
 import type { Logger } from '../../server/logger';
 import type { Mailer } from '../../server/mail/mailer';
 import { createBatchRepository } from '../../server/modules/batches/repository';
-import type { SnapTaskInput, SnapTaskOutput } from '../../server/modules/batches/snap-structure';
+import type { SnapTaskInput, SnapTaskStorableOutput } from '../../server/modules/batches/snap-structure';
 import { BATCH_QUEUE_NAME, createBatchQueue, type NotifyJobData, type SnapJobData } from '../../server/queue/batch-queue';
 import { createNotifyProcessor } from './notify';
 import { createSnapProcessor } from './snap';
@@ -23,6 +23,12 @@ export interface ProcessorDeps {
   redis: Redis;
   mailer: Mailer;
 }
+
+/**
+ * Jobs in hand per engine thread: while one structure is in the engine, the others are being
+ * claimed or stored, so a thread never waits for the database.
+ */
+const JOBS_PER_THREAD = 4;
 
 /** Knobs for tests and benchmarks; production uses the defaults. */
 export interface ProcessorOptions {
@@ -41,8 +47,8 @@ export interface ProcessorOptions {
 /**
  * Starts the batch pipeline's BullMQ worker (snap and notify jobs), the engine thread pool and
  * the sweeper. Engine threads default to one per core (WORKER_CONCURRENCY overrides); BullMQ runs
- * twice as many jobs at once so a thread always has the next structure ready while the previous
- * result is being stored. `close()` stops taking jobs, lets the ones in hand finish, then stops
+ * JOBS_PER_THREAD jobs per thread at once so a thread always has the next structure ready while
+ * earlier results are being stored. `close()` stops taking jobs, lets the ones in hand finish, then stops
  * the threads.
  */
 export async function startProcessors(deps: ProcessorDeps, options: ProcessorOptions = {}): Promise<{ close(): Promise<void> }> {
@@ -50,7 +56,7 @@ export async function startProcessors(deps: ProcessorDeps, options: ProcessorOpt
   const threads = options.threads ?? config.WORKER_CONCURRENCY ?? Math.max(1, availableParallelism());
   const repo = createBatchRepository(deps.dataSource);
   const queue = createBatchQueue({ connection: deps.redis, prefix: config.QUEUE_PREFIX });
-  const pool = createThreadPool<SnapTaskInput, SnapTaskOutput>({
+  const pool = createThreadPool<SnapTaskInput, SnapTaskStorableOutput>({
     entry: new URL('./engine-thread.ts', import.meta.url),
     tsconfig: fileURLToPath(new URL('../../tsconfig.json', import.meta.url)),
     size: threads,
@@ -69,14 +75,14 @@ export async function startProcessors(deps: ProcessorDeps, options: ProcessorOpt
   const worker = new Worker(
     BATCH_QUEUE_NAME,
     async (job: Job) => {
-      if (job.name === 'snap') return snap(job as Job<SnapJobData>);
+      if (job.name === 'snap') return snap.process(job as Job<SnapJobData>);
       if (job.name === 'notify') return notify(job as Job<NotifyJobData>);
       throw new Error(`Unknown job ${job.name}`);
     },
     {
       connection,
       prefix: config.QUEUE_PREFIX,
-      concurrency: threads * 2,
+      concurrency: threads * JOBS_PER_THREAD,
       lockDuration: options.lockDuration ?? 30_000,
       stalledInterval: options.stalledInterval ?? 30_000,
       maxStalledCount: 3,
@@ -108,12 +114,13 @@ export async function startProcessors(deps: ProcessorDeps, options: ProcessorOpt
 
   const sweeper = startSweeper({ repo, queue, logger }, { intervalMs: options.sweepIntervalMs ?? 30_000, staleMs: options.staleMs ?? 120_000 });
   await worker.waitUntilReady();
-  logger.info({ threads, concurrency: threads * 2, prefix: config.QUEUE_PREFIX }, 'batch processors started');
+  logger.info({ threads, concurrency: threads * JOBS_PER_THREAD, prefix: config.QUEUE_PREFIX }, 'batch processors started');
 
   return {
     async close() {
       await sweeper.stop();
       await worker.close();
+      await snap.flush();
       await pool.close();
       await queue.close();
       connection.disconnect();

@@ -42,6 +42,11 @@ export interface ThreadPoolOptions {
   timeoutMs: number;
   /** tsconfig.json for tsx's path aliases (default: the one in the current directory). */
   tsconfig?: string;
+  /**
+   * Tasks handed to a thread ahead of time (default 2): the next one is already in the thread's
+   * inbox when it finishes, so a busy main event loop can't leave the thread idle.
+   */
+  prefetch?: number;
   /** Heap cap per thread, so one monstrous input can't take the whole process down. */
   maxHeapMb?: number;
   logger: Logger;
@@ -56,7 +61,10 @@ interface Pending<I, O> {
 interface Slot<I, O> {
   worker: Worker;
   ready: boolean;
-  task: (Pending<I, O> & { id: number; timer: NodeJS.Timeout }) | null;
+  /** Handed to the thread, in order; the first is running, the others wait in its inbox. */
+  tasks: (Pending<I, O> & { id: number })[];
+  /** Times the running task only. */
+  timer: NodeJS.Timeout | null;
 }
 
 /*
@@ -96,27 +104,43 @@ import(${JSON.stringify(tsxApi)})
 export function createThreadPool<I, O>(options: ThreadPoolOptions): ThreadPool<I, O> {
   const queue: Pending<I, O>[] = [];
   const slots: Slot<I, O>[] = [];
+  const prefetch = options.prefetch ?? 2;
   let nextId = 1;
   let closed = false;
+
+  const armTimer = (slot: Slot<I, O>) => {
+    if (slot.timer) clearTimeout(slot.timer);
+    slot.timer = null;
+    const head = slot.tasks[0];
+    if (!head) return;
+    slot.timer = setTimeout(() => {
+      if (slot.tasks[0] !== head) return;
+      slot.tasks.shift();
+      head.reject(new ThreadLostError(`The engine took longer than ${Math.round(options.timeoutMs / 1000)} s`, 'timeout'));
+      // The tasks behind it never started: give them to the other threads.
+      queue.unshift(...slot.tasks.splice(0));
+      void slot.worker.terminate();
+    }, options.timeoutMs);
+  };
 
   const spawn = (): Slot<I, O> => {
     const worker = new Worker(bootstrap(options.entry.href, options.tsconfig), {
       eval: true,
       resourceLimits: options.maxHeapMb ? { maxOldGenerationSizeMb: options.maxHeapMb } : undefined,
     });
-    const slot: Slot<I, O> = { worker, ready: false, task: null };
+    const slot: Slot<I, O> = { worker, ready: false, tasks: [], timer: null };
     worker.on('message', (msg: { ready?: true; id?: number; ok?: boolean; value?: O; error?: { name: string; message: string; code?: string } }) => {
       if (msg.ready) {
         slot.ready = true;
         pump();
         return;
       }
-      const task = slot.task;
-      if (!task || task.id !== msg.id) return;
-      clearTimeout(task.timer);
-      slot.task = null;
+      const index = slot.tasks.findIndex((t) => t.id === msg.id);
+      if (index < 0) return;
+      const [task] = slot.tasks.splice(index, 1);
       if (msg.ok) task.resolve(msg.value as O);
       else task.reject(new ThreadTaskError(msg.error!.name, msg.error!.message, msg.error!.code));
+      armTimer(slot);
       pump();
     });
     let lastError: (Error & { code?: string }) | null = null;
@@ -126,12 +150,11 @@ export function createThreadPool<I, O>(options: ThreadPoolOptions): ThreadPool<I
     worker.on('exit', (code) => {
       const index = slots.indexOf(slot);
       if (index >= 0) slots.splice(index, 1);
-      const task = slot.task;
-      slot.task = null;
-      if (task) {
-        clearTimeout(task.timer);
+      if (slot.timer) clearTimeout(slot.timer);
+      const [running, ...waiting] = slot.tasks.splice(0);
+      if (running) {
         const oom = lastError?.code === 'ERR_WORKER_OUT_OF_MEMORY';
-        task.reject(
+        running.reject(
           new ThreadLostError(
             oom ? 'The engine ran out of memory on this structure' : `Engine thread exited (code ${code}): ${lastError?.message ?? 'no error'}`,
             oom ? 'out-of-memory' : 'crash',
@@ -140,33 +163,35 @@ export function createThreadPool<I, O>(options: ThreadPoolOptions): ThreadPool<I
       } else if (lastError && !closed) {
         options.logger.error({ err: lastError }, 'engine thread failed to start');
       }
-      if (!closed) {
-        // A thread that can't even start (broken import) would respawn in a tight loop: back off.
-        setTimeout(() => {
-          if (!closed && slots.length < options.size) {
-            slots.push(spawn());
-            pump();
-          }
-        }, slot.ready ? 0 : 1000).unref();
+      if (closed) {
+        for (const t of waiting) t.reject(new Error('The engine pool is closed'));
+        return;
       }
+      queue.unshift(...waiting);
+      // A thread that can't even start (broken import) would respawn in a tight loop: back off.
+      setTimeout(() => {
+        if (!closed && slots.length < options.size) {
+          slots.push(spawn());
+          pump();
+        }
+      }, slot.ready ? 0 : 1000).unref();
     });
     return slot;
   };
 
+  /** Keeps every ready thread's inbox `prefetch` deep, least loaded thread first. */
   const pump = () => {
-    for (const slot of slots) {
-      if (queue.length === 0) return;
-      if (!slot.ready || slot.task) continue;
+    while (queue.length > 0) {
+      let best: Slot<I, O> | null = null;
+      for (const slot of slots) {
+        if (slot.ready && slot.tasks.length < prefetch && (!best || slot.tasks.length < best.tasks.length)) best = slot;
+      }
+      if (!best) return;
       const pending = queue.shift()!;
-      const id = nextId++;
-      const timer = setTimeout(() => {
-        if (slot.task?.id !== id) return;
-        slot.task = null;
-        pending.reject(new ThreadLostError(`The engine took longer than ${Math.round(options.timeoutMs / 1000)} s`, 'timeout'));
-        void slot.worker.terminate();
-      }, options.timeoutMs);
-      slot.task = { ...pending, id, timer };
-      slot.worker.postMessage({ id, input: pending.input });
+      const task = { ...pending, id: nextId++ };
+      best.tasks.push(task);
+      best.worker.postMessage({ id: task.id, input: pending.input });
+      if (best.tasks.length === 1) armTimer(best);
     }
   };
 

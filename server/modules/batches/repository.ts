@@ -1,8 +1,9 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { SnapSettings, TargetPolicy } from '@shared/contracts/settings';
-import type { AtomJson, FlagCode, StructureResult } from '@shared/contracts/structure';
+import type { AtomJson, FlagCode } from '@shared/contracts/structure';
 import { notFound } from '../../errors';
 import { UUID_PATTERN } from '../workspaces/access';
+import type { StorableResult } from './snap-structure';
 import { Batch, Structure, type BatchStatus, type ReviewState, type StructureStatus, type StructureTimings } from './entity';
 
 /*
@@ -263,13 +264,8 @@ export function createBatchRepository(dataSource: DataSource) {
     },
 
     /** Stores a result; false when the structure moved on (re-snapped, cancelled) meanwhile. */
-    async storeResult(
-      structureId: string,
-      revision: number,
-      result: StructureResult,
-      outputs: Record<string, string>,
-      timings: StructureTimings,
-    ): Promise<boolean> {
+    async storeResult(structureId: string, revision: number, stored: StorableResult, timings: StructureTimings): Promise<boolean> {
+      const c = stored.columns;
       const rows = rowsOf(
         await dataSource.query(
           `UPDATE structures SET status = 'done', error = NULL, formula = $3, perceived_group = $4, point_group = $5,
@@ -281,20 +277,20 @@ export function createBatchRepository(dataSource: DataSource) {
           [
             structureId,
             revision,
-            result.formula,
-            result.perceivedGroup,
-            result.pointGroup,
-            result.order,
-            result.computationalSubgroup,
-            result.symmetryRmsdBefore,
-            result.symmetryRmsdAfter,
-            result.displacementRmsd,
-            result.maxDisplacement,
-            result.csm,
-            result.flags,
-            JSON.stringify(result),
-            JSON.stringify(outputs),
-            result.engineVersion,
+            c.formula,
+            c.perceivedGroup,
+            c.pointGroup,
+            c.order,
+            c.computationalSubgroup,
+            c.symmetryRmsdBefore,
+            c.symmetryRmsdAfter,
+            c.displacementRmsd,
+            c.maxDisplacement,
+            c.csm,
+            c.flags,
+            stored.resultJson,
+            stored.outputsJson,
+            c.engineVersion,
             JSON.stringify(timings),
           ],
         ),
@@ -321,12 +317,12 @@ export function createBatchRepository(dataSource: DataSource) {
      * Returns the batch's status and whether its notice is still to be sent.
      */
     async refreshBatch(batchId: string): Promise<{ status: BatchStatus; needsNotice: boolean } | null> {
-      await dataSource.query(
-        `UPDATE batches b SET total = c.total, done_count = c.done, clean_count = c.clean,
-           over_budget_count = c.over_budget, knife_edge_count = c.knife_edge, error_count = c.error,
-           accepted_count = c.accepted, flagged_count = c.flagged, groups = g.groups
-         FROM (
+      // One statement (one round trip per result): counts, groups, and the finish when nothing is
+      // pending. A batch with nothing snapped (every structure unreadable) has failed.
+      const rows = await dataSource.query(
+        `WITH c AS (
            SELECT count(*)::int AS total,
+             count(*) FILTER (WHERE status IN ('queued', 'running'))::int AS pending,
              count(*) FILTER (WHERE status = 'done')::int AS done,
              count(*) FILTER (WHERE status = 'done' AND cardinality(flags) = 0)::int AS clean,
              count(*) FILTER (WHERE status = 'done' AND 'over-budget' = ANY(flags))::int AS over_budget,
@@ -335,22 +331,23 @@ export function createBatchRepository(dataSource: DataSource) {
              count(*) FILTER (WHERE review = 'accepted')::int AS accepted,
              count(*) FILTER (WHERE review = 'flagged')::int AS flagged
            FROM structures WHERE batch_id = $1
-         ) c, (
+         ), g AS (
            SELECT coalesce(jsonb_agg(jsonb_build_object('group', grp, 'count', n) ORDER BY n DESC, grp), '[]'::jsonb) AS groups
            FROM (SELECT perceived_group AS grp, count(*)::int AS n FROM structures
                  WHERE batch_id = $1 AND status = 'done' AND perceived_group IS NOT NULL GROUP BY 1) x
-         ) g
-         WHERE b.id = $1`,
+         ), u AS (
+           UPDATE batches b SET total = c.total, done_count = c.done, clean_count = c.clean,
+             over_budget_count = c.over_budget, knife_edge_count = c.knife_edge, error_count = c.error,
+             accepted_count = c.accepted, flagged_count = c.flagged, groups = g.groups,
+             status = CASE WHEN b.status IN ('queued', 'running') AND c.pending = 0
+                           THEN CASE WHEN c.done = 0 THEN 'failed' ELSE 'done' END ELSE b.status END,
+             finished_at = CASE WHEN b.status IN ('queued', 'running') AND c.pending = 0 THEN now() ELSE b.finished_at END
+           FROM c, g WHERE b.id = $1
+           RETURNING b.status, b.notified_at
+         )
+         SELECT status, notified_at FROM u`,
         [batchId],
       );
-      // A batch with nothing snapped (every structure unreadable) has failed.
-      await dataSource.query(
-        `UPDATE batches SET status = CASE WHEN done_count = 0 THEN 'failed' ELSE 'done' END, finished_at = now()
-         WHERE id = $1 AND status IN ('queued', 'running')
-           AND NOT EXISTS (SELECT 1 FROM structures WHERE batch_id = $1 AND status IN ('queued', 'running'))`,
-        [batchId],
-      );
-      const rows = await dataSource.query(`SELECT status, notified_at FROM batches WHERE id = $1`, [batchId]);
       if (!rows[0]) return null;
       const status = rows[0].status as BatchStatus;
       return { status, needsNotice: (status === 'done' || status === 'failed') && rows[0].notified_at === null };

@@ -5,7 +5,7 @@ import type { SnapSettings } from '@shared/contracts/settings';
 import { Batch } from './entity';
 import { ingestUploads } from './ingest';
 import { createBatchRepository } from './repository';
-import { snapStructure } from './snap-structure';
+import { snapStructure, storable } from './snap-structure';
 
 /** The demo batch's name: how the seed recognises that it already ran. */
 export const DEMO_BATCH_NAME = 'Ligand and precursor screen (demo)';
@@ -82,7 +82,7 @@ export async function seedDemoBatch(deps: { dataSource: DataSource; workspaceId:
     const out = outcomes[i];
     if (!out) continue;
     const timings = { queueMs: 0, engineMs: out.engineMs, writeMs: out.ok ? out.writeMs : 0, dbMs: 0 };
-    if (out.ok) await repo.storeResult(s.id, 0, out.result, out.outputs as Record<string, string>, timings);
+    if (out.ok) await repo.storeResult(s.id, 0, storable(out.result, out.outputs), timings);
     else await repo.storeFailure(s.id, 0, out.message, timings);
   }
   // Finished and already "announced": the demo batch sends no mail.

@@ -1,3 +1,4 @@
+import { performance } from 'node:perf_hooks';
 import type { z } from 'zod';
 import type {
   batchDetailSchema,
@@ -181,7 +182,9 @@ export function createBatchService(deps: BatchServiceDeps) {
     async createBatch(access: WorkspaceAccess, userId: string, input: CreateBatchInput, uploads: readonly UploadedFile[]): Promise<BatchDetail> {
       assertRole(access, WRITERS);
       const settings = resolveSettings(access.workspace.defaults ?? {}, input.settings);
+      const t0 = performance.now();
       const { files, structures } = await ingestUploads(uploads, limits);
+      const t1 = performance.now();
       const name = (input.name?.trim() || defaultBatchName(files.map((f) => f.name))).slice(0, 200);
 
       const batch = await ds.transaction(async (m) => {
@@ -204,9 +207,14 @@ export function createBatchService(deps: BatchServiceDeps) {
         return b;
       });
 
+      const t2 = performance.now();
       const jobs = structures.filter((s) => s.status === 'queued').map((s) => ({ structureId: s.id, revision: 0 }));
       try {
         await queue.enqueueSnaps(jobs);
+        logger.info(
+          { batchId: batch.id, structures: structures.length, parseMs: Math.round(t1 - t0), storeMs: Math.round(t2 - t1), queueMs: Math.round(performance.now() - t2) },
+          'batch created',
+        );
       } catch (err) {
         // The structures are stored; the worker's sweeper re-queues pending structures whose jobs
         // never arrived, so the batch still completes once Redis is back.

@@ -57,6 +57,65 @@ export function snapStructure(input: SnapTaskInput): SnapTaskOutput {
   return { ok: true, result, outputs, engineMs: t1 - t0, writeMs: performance.now() - t1 };
 }
 
+/** The scalar columns of a result (what the structure table filters and sorts on). */
+export interface ResultColumns {
+  formula: string;
+  perceivedGroup: string;
+  pointGroup: string;
+  order: number;
+  computationalSubgroup: string;
+  symmetryRmsdBefore: number;
+  symmetryRmsdAfter: number;
+  displacementRmsd: number;
+  maxDisplacement: number;
+  csm: number;
+  flags: string[];
+  engineVersion: string;
+}
+
+/** A result ready to store: its columns, and the result and outputs already as JSON text. */
+export interface StorableResult {
+  columns: ResultColumns;
+  resultJson: string;
+  outputsJson: string;
+}
+
+export function storable(result: StructureResult, outputs: Partial<Record<OutputFormat, string>>): StorableResult {
+  return {
+    columns: {
+      formula: result.formula,
+      perceivedGroup: result.perceivedGroup,
+      pointGroup: result.pointGroup,
+      order: result.order,
+      computationalSubgroup: result.computationalSubgroup,
+      symmetryRmsdBefore: result.symmetryRmsdBefore,
+      symmetryRmsdAfter: result.symmetryRmsdAfter,
+      displacementRmsd: result.displacementRmsd,
+      maxDisplacement: result.maxDisplacement,
+      csm: result.csm,
+      flags: result.flags,
+      engineVersion: result.engineVersion,
+    },
+    resultJson: JSON.stringify(result),
+    outputsJson: JSON.stringify(outputs),
+  };
+}
+
+export type SnapTaskStorableOutput =
+  | ({ ok: true; engineMs: number; writeMs: number } & StorableResult)
+  | Extract<SnapTaskOutput, { ok: false }>;
+
+/**
+ * {@link snapStructure} with the result serialised where it was computed (an engine thread): the
+ * worker's main thread then hands plain strings to PostgreSQL instead of copying a large object
+ * across threads and stringifying it on the event loop that also serves the queue.
+ */
+export function snapStructureStorable(input: SnapTaskInput): SnapTaskStorableOutput {
+  const out = snapStructure(input);
+  if (!out.ok) return out;
+  return { ok: true, engineMs: out.engineMs, writeMs: out.writeMs, ...storable(out.result, out.outputs) };
+}
+
 function failure(e: unknown, engineMs: number): Extract<SnapTaskOutput, { ok: false }> {
   if (e instanceof EngineError) return { ok: false, code: e.code, message: e.message, engineMs };
   const message = e instanceof Error ? e.message : String(e);
