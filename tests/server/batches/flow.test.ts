@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { batchDetailSchema, batchSummarySchema, page, structureDetailSchema, structureRowSchema } from '@shared/contracts/api';
 import { perceive } from '@shared/engine';
 import { readStructures } from '@shared/formats';
 import { startProcessors } from '../../../worker/processors/index';
@@ -218,6 +219,16 @@ describe('a batch from upload to download', () => {
     const csv = files.get('summary.csv')!.toString('utf8').trim().split('\r\n');
     expect(csv[0]).toMatch(/^name,inputFile,frameIndex,status,formula,perceivedGroup,pointGroup/);
     expect(csv).toHaveLength(38);
+  });
+
+  it('answers in the shapes of shared/contracts/api.ts (what the browser parses)', async () => {
+    batchDetailSchema.parse((await get(t, chemist, `/api/batches/${batch.id}`)).body);
+    page(batchSummarySchema).parse((await get(t, chemist, `/api/workspaces/${chemist.workspace.slug}/batches`)).body);
+    page(structureRowSchema).parse((await get(t, chemist, `/api/batches/${batch.id}/structures?pageSize=500`)).body);
+    for (const row of await allRows(t, chemist, batch.id)) {
+      const detail = structureDetailSchema.parse((await get(t, chemist, `/api/structures/${row.id}`)).body);
+      expect(detail.result === null).toBe(row.status !== 'done');
+    }
   });
 
   it('mails the submitter once when the batch finishes', async () => {
