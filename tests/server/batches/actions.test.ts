@@ -87,6 +87,26 @@ describe('who may see and change a batch', () => {
   });
 });
 
+describe('preview', () => {
+  it('says what it recognises in the files and stores nothing', async () => {
+    const before = (await get(t, chemist, `/api/workspaces/${chemist.workspace.slug}/batches`)).body.total;
+    let req = request(t.app).post(`/api/workspaces/${chemist.workspace.slug}/batches/preview`).set('Authorization', chemist.auth);
+    for (const f of DEMO_FILES) req = req.attach('files', f.bytes, f.name);
+    const res = await req;
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ formats: { xyz: 2, sdf: 1, qcschema: 1 }, frames: 37, structures: 36 });
+    expect(res.body.files.map((f: { name: string; structures: number }) => [f.name, f.structures])).toEqual([
+      ['ligands.xyz', 12],
+      ['fragments.xyz', 15],
+      ['complexes.sdf', 9],
+      ['clusters.qcschema.json', 1],
+    ]);
+    expect(res.body.errors).toEqual([{ file: 'ligands.xyz', frame: 5, line: null, message: "ligands.xyz:31: frame 6: atom 2: coordinate '1.128O0000' is not a number" }]);
+    expect((await get(t, chemist, `/api/workspaces/${chemist.workspace.slug}/batches`)).body.total).toBe(before);
+    expect((await request(t.app).post(`/api/workspaces/${chemist.workspace.slug}/batches/preview`).set('Authorization', reviewer.auth).attach('files', ligands[0].bytes, 'l.xyz')).status).toBe(403);
+  });
+});
+
 describe('cancel', () => {
   it('cancels a queued batch: its structures are cancelled and it cannot be cancelled twice', async () => {
     const queued = await upload(idle, chemist, ligands);
