@@ -69,7 +69,8 @@ describe('a reviewer decides every structure of a batch and signs it off', () =>
     await page.getByRole('heading', { level: 1, name: BATCH }).waitFor();
     await page.getByRole('combobox', { name: 'Review', exact: true }).selectOption('pending');
     await page.waitForURL(/review=pending/);
-    await table.waitFor();
+    // The loader fetches the filtered page; wait until the flagged structure has left the table.
+    await expect.poll(() => table.getByRole('link', { name: firstName, exact: true }).count(), { timeout: 15_000 }).toBe(0);
     await page.getByRole('checkbox', { name: /select all structures on this page/i }).check();
     const bar = page.getByRole('region', { name: /actions on selected/i });
     await bar.getByRole('button', { name: /^Accept \d+$/ }).click();

@@ -73,7 +73,7 @@ async function chemistWalkthrough(page: Page) {
   // Find it with the table's search and open it.
   await page.getByLabel('Search names').fill(target!.name);
 await page.waitForURL(/[?&]q=/);
-await expect.poll(() => table.getByRole('row').count()).toBe(2);
+await expect.poll(() => table.getByRole('row').count(), { timeout: 15_000 }).toBe(2);
   await table.getByRole('link', { name: target!.name, exact: true }).click();
   await page.getByRole('heading', { level: 1, name: target!.name }).waitFor();
   const summary = page.locator('header dl');
