@@ -5,7 +5,8 @@
  */
 export { EngineError, engineErrorCodes, isEngineError, type EngineErrorCode } from './errors';
 export { perceive, ladder, type Perception } from './perceive';
-export { snap, allowedTargets, ENGINE_VERSION } from './report';
+export { snap, ENGINE_VERSION } from './report';
+export { allowedTargets } from './targets';
 export { groupOrder, isKnownGroup, parseGroupName } from './groups';
 export { MAX_ATOMS } from './molecule';
 export { LADDER_MIN, LADDER_MAX, LADDER_RUNGS } from './ladder';

@@ -129,13 +129,7 @@ function findCloseContact(y: Float64Array, kinds: Int32Array): PreparedMolecule[
     if (!best || d < best.distance) best = { i, j, distance: d };
     return ++pairs <= cap;
   });
-  if (coincident.pair) {
-    const [i, j, d] = coincident.pair;
-    throw new EngineError(
-      'coincident-atoms',
-      `atoms ${i + 1} and ${j + 1} are ${d.toExponential(2)} Å apart (closer than ${COINCIDENT_DISTANCE} Å): the same atom given twice?`,
-    );
-  }
+  if (coincident.pair) throw coincidentError(...coincident.pair);
   if (!finished) {
     throw new EngineError('bad-coordinates', `more than ${cap} atom pairs are closer than ${CLOSE_CONTACT_DISTANCE} Å: not a molecular structure`);
   }
@@ -154,14 +148,16 @@ function closeContactDirect(y: Float64Array, n: number): PreparedMolecule['close
       const d2 = dx * dx + dy * dy + dz * dz;
       if (d2 >= r2) continue;
       const d = Math.sqrt(d2);
-      if (d < COINCIDENT_DISTANCE) {
-        throw new EngineError(
-          'coincident-atoms',
-          `atoms ${i + 1} and ${j + 1} are ${d.toExponential(2)} Å apart (closer than ${COINCIDENT_DISTANCE} Å): the same atom given twice?`,
-        );
-      }
+      if (d < COINCIDENT_DISTANCE) throw coincidentError(i, j, d);
       if (!best || d < best.distance) best = { i, j, distance: d };
     }
   }
   return best;
+}
+
+function coincidentError(i: number, j: number, d: number): EngineError {
+  return new EngineError(
+    'coincident-atoms',
+    `atoms ${i + 1} and ${j + 1} are ${d.toExponential(2)} Å apart (closer than ${COINCIDENT_DISTANCE} Å): the same atom given twice?`,
+  );
 }

@@ -1,12 +1,13 @@
-import type { AtomJson, FlagCode, OperationJson, StructureResult } from '../contracts/structure';
+import type { AtomJson, FlagCode, LadderRungJson, OperationJson, StructureResult } from '../contracts/structure';
 import { analyse, groupAt } from './analysis';
+import { perceptionNotes } from './flag-notes';
 import { EngineError } from './errors';
 import { fitGroup } from './fit-frame';
 import { groupOrder } from './groups';
-import type { LadderRungJson } from '../contracts/structure';
 import { mul3, transpose3 } from './mat3';
 import { prepareMolecule } from './molecule';
-import { describe, equivalenceClasses, ladderJson, orientFit } from './report';
+import { describe, equivalenceClasses, orientFit } from './describe';
+import { ladderJson } from './report';
 
 /** What {@link perceive} returns: the group at one tolerance, in the input frame. */
 export interface Perception {
@@ -39,29 +40,7 @@ export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: num
   const o = orientFit(a, fitGroup(a, found));
   const { operations, elements } = describe(o, mul3(o.fit.Q, transpose3(o.S)));
   const classes = equivalenceClasses(mol.n, o.fit.perms);
-  const flags: FlagCode[] = [];
-  const flagNotes: StructureResult['flagNotes'] = [];
-  if (found.notClosed) {
-    flags.push('not-closed');
-    flagNotes.push({
-      flag: 'not-closed',
-      message: `Some operations found within ${tol} Å do not combine into a group; the largest closed group, ${found.name}, was used.`,
-    });
-  }
-  const half = groupAt(a, tol / 2).name;
-  const twice = groupAt(a, 2 * tol).name;
-  if (half !== found.name || twice !== found.name) {
-    flags.push('knife-edge');
-    flagNotes.push({
-      flag: 'knife-edge',
-      message: `The perceived group depends on the tolerance: ${half} at ${tol / 2} Å, ${found.name} at ${tol} Å, ${twice} at ${2 * tol} Å.`,
-    });
-  }
-  if (mol.closeContact) {
-    const c = mol.closeContact;
-    flags.push('close-contact');
-    flagNotes.push({ flag: 'close-contact', message: `Atoms ${c.i + 1} and ${c.j + 1} are only ${c.distance.toPrecision(2)} Å apart.` });
-  }
+  const notes = perceptionNotes(a, found, tol);
   return {
     pointGroup: found.name,
     order: groupOrder(found.name),
@@ -70,8 +49,8 @@ export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: num
     elements,
     equivalenceClasses: classes,
     uniqueAtoms: classes.map((c) => c[0]),
-    flags,
-    flagNotes,
+    flags: notes.map((f) => f.flag),
+    flagNotes: notes,
   };
 }
 

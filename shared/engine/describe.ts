@@ -1,0 +1,161 @@
+import type { OperationJson, StructureResult } from '../contracts/structure';
+import type { Analysis } from './analysis';
+import type { FrameFit } from './fit-frame';
+import { labelElements, type ElementLabel } from './labels';
+import { apply3, canonicalDirection, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { standardOrientation } from './orient';
+
+/** A fitted group put in its standard frame: what every report is built from. */
+export interface OrientedFit {
+  readonly fit: FrameFit;
+  /** Canonical → standard frame rotation. */
+  readonly S: Mat3;
+  readonly labels: readonly ElementLabel[];
+}
+
+/** Fits a found group and orients it (see fit-frame.ts and orient.ts). */
+export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
+  // Orbits under the proper rotations only: atoms related by a rotation give the same frame.
+  const orbitOf = new Int32Array(a.mol.n);
+  const properPerms = fit.perms.filter((_, k) => fit.ideal.elements[k].det > 0);
+  equivalenceClasses(a.mol.n, properPerms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
+  const rotations = fit.ideal.elements.filter((e) => e.det > 0).map((e) => e.matrix);
+  const S = standardOrientation(fit.name, fit.W, a.mol, orbitOf, rotations);
+  const labels = labelElements(fit.ideal.name, fit.ideal, S);
+  return { fit, S, labels };
+}
+
+/** Orbits of atoms under the fitted group's permutations, each sorted, ordered by first atom. */
+export function equivalenceClasses(n: number, perms: readonly Int32Array[]): number[][] {
+  const parent = Int32Array.from({ length: n }, (_, i) => i);
+  const find = (i: number): number => {
+    while (parent[i] !== i) {
+      parent[i] = parent[parent[i]];
+      i = parent[i];
+    }
+    return i;
+  };
+  for (const p of perms) {
+    for (let i = 0; i < n; i++) {
+      const a = find(i);
+      const b = find(p[i]);
+      if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
+    }
+  }
+  const classes = new Map<number, number[]>();
+  for (let i = 0; i < n; i++) {
+    const r = find(i);
+    const list = classes.get(r) ?? [];
+    list.push(i);
+    classes.set(r, list);
+  }
+  return [...classes.values()].sort((p, q) => p[0] - q[0]);
+}
+
+/**
+ * Operations and symmetry elements of an oriented fit, expressed in the frame whose axes, seen
+ * from the standard frame, are the rows of `toOut` (identity: standard frame; Sᵀ·Qᵀ: the
+ * centred input frame). For C∞v and D∞h the operations are the C2v / D2h subset with the
+ * infinite axis on z, and that axis is reported with order 0 (∞).
+ */
+export function describe(
+  o: OrientedFit,
+  toOut: Mat3,
+): { operations: OperationJson[]; elements: StructureResult['elements'] } {
+  const { fit, S, labels } = o;
+  const St = transpose3(S);
+  const outT = transpose3(toOut);
+  const linear = fit.name === 'C∞v' || fit.name === 'D∞h';
+  const unsorted: OperationJson[] = fit.ideal.elements.map((e, k) => {
+    const std = mul3(mul3(S, e.matrix), St);
+    const m = mul3(mul3(toOut, std), outT);
+    const l = labels[k];
+    const axis = l.kind === 'identity' || l.kind === 'inversion' ? ([0, 0, 0] as Vec3) : canonicalDirection(apply3(toOut, l.axis));
+    return {
+      symbol: l.symbol,
+      kind: l.kind,
+      order: l.order,
+      power: l.power,
+      axis: cleanZeros(axis) as [number, number, number],
+      matrix: cleanZeros(m),
+      permutation: Array.from(fit.perms[k]),
+      residual: fit.residuals[k],
+    };
+  });
+  const operations = unsorted
+    .map((op, k) => ({ op, rank: operationRank(labels[k]) }))
+    .sort((a, b) => compareTuples(a.rank, b.rank))
+    .map((x) => x.op);
+  const axes: StructureResult['elements']['axes'] = [];
+  const planes: StructureResult['elements']['planes'] = [];
+  const axisIndex = new Map<string, number>();
+  const keyOf = (v: Vec3) => v.map((c) => Math.round(c * 1e6)).join(',');
+  const rotations = labels.filter((l) => l.kind === 'rotation');
+  const maxOrder = Math.max(0, ...rotations.map((l) => l.order));
+  const maxAxes = new Set(rotations.filter((l) => l.order === maxOrder).map((l) => keyOf(l.axis)));
+  const zKey = keyOf([0, 0, 1]);
+  const principalKey = linear || (maxAxes.size > 1 && maxAxes.has(zKey) && maxOrder === 2) ? zKey : maxAxes.size === 1 ? [...maxAxes][0] : null;
+  for (const l of labels) {
+    if (l.kind === 'rotation') {
+      const key = keyOf(l.axis);
+      let idx = axisIndex.get(key);
+      if (idx === undefined) {
+        idx = axes.length;
+        axisIndex.set(key, idx);
+        axes.push({ order: 0, direction: [0, 0, 0], improperOrder: null, principal: key === principalKey });
+        axes[idx].direction = cleanZeros(canonicalDirection(apply3(toOut, l.axis))) as [number, number, number];
+      }
+      axes[idx].order = Math.max(axes[idx].order, l.order);
+    }
+  }
+  for (const l of labels) {
+    if (l.kind === 'improper') {
+      const idx = axisIndex.get(keyOf(l.axis));
+      if (idx !== undefined) axes[idx].improperOrder = Math.max(axes[idx].improperOrder ?? 0, l.order);
+    } else if (l.kind === 'reflection') {
+      planes.push({ normal: cleanZeros(canonicalDirection(apply3(toOut, l.axis))) as [number, number, number], kind: l.planeKind ?? 'σ' });
+    }
+  }
+  if (linear) {
+    const idx = axisIndex.get(zKey);
+    if (idx !== undefined) {
+      axes[idx].order = 0;
+      axes[idx].improperOrder = fit.name === 'D∞h' ? 0 : null;
+    }
+  }
+  return { operations, elements: { axes, planes, inversionCentre: labels.some((l) => l.kind === 'inversion') } };
+}
+
+const PLANE_RANK: Record<string, number> = { σh: 0, σv: 1, 'σv′': 2, σd: 3, σ: 4 };
+
+/**
+ * Sort key giving the customary order of a character table's header: E, proper rotations
+ * (highest order first; C2′ then C2″ after the other C2), i, improper rotations (highest order
+ * first), mirrors (σh, σv, σv′, σd, σ); powers ascending.
+ */
+function operationRank(l: ElementLabel): number[] {
+  const primes = l.symbol.includes('″') ? 2 : l.symbol.includes('′') ? 1 : 0;
+  switch (l.kind) {
+    case 'identity':
+      return [0, 0, 0, 0];
+    case 'rotation':
+      return [1, -l.order, primes, l.power];
+    case 'inversion':
+      return [2, 0, 0, 0];
+    case 'improper':
+      return [3, -l.order, 0, l.power];
+    default:
+      return [4, PLANE_RANK[l.symbol] ?? 5, 0, 0];
+  }
+}
+
+/** Entries below 1e-14 in magnitude (rounding noise of exact zeros) set to 0. */
+export function cleanZeros(v: readonly number[]): number[] {
+  return v.map((c) => (Math.abs(c) < 1e-14 ? 0 : c));
+}
+
+
+function compareTuples(a: readonly number[], b: readonly number[]): number {
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i] - b[i];
+  return 0;
+}
