@@ -11,7 +11,7 @@ import {
   type Vec3,
 } from './mat3';
 import { matchOperation, probeOperation } from './operations';
-import { addOperation, refineOperation, type OpStore } from './op-store';
+import { addOperation, closeUnder, exactOperation, refineOperation, type OpStore } from './op-store';
 
 /**
  * Candidate symmetry operations of a structure, found once at a loose tolerance (the store's
@@ -40,6 +40,7 @@ export function generateCandidates(store: OpStore): void {
   const { y, n } = mol;
   if (n < 2) return;
   const probe = probeAtoms(store);
+  const exact = EXACT_RESIDUAL * Math.max(1, mol.radius);
   const tested = new Set<number>();
   const perm = new Int32Array(n);
   const images = new Int32Array(probe.length);
@@ -49,8 +50,11 @@ export function generateCandidates(store: OpStore): void {
     // probe[0], probe[1] are the anchors: the key is known before the O(N) match.
     const key = (images[0] * n + images[1]) * 2 + (det < 0 ? 1 : 0);
     if (store.byKey.has(key)) return true;
-    if (!Number.isFinite(matchOperation(store.ctx, m, tol, perm))) return false;
-    const op = refineOperation(store, perm.slice(), det);
+    const residual = matchOperation(store.ctx, m, tol, perm);
+    if (!Number.isFinite(residual)) return false;
+    // Exactly symmetric input (re-snaps, written files read back): the candidate built from
+    // exact directions is already the best fit; only its type needs recording.
+    const op = residual <= exact ? exactOperation(store, m, perm.slice(), det) : refineOperation(store, perm.slice(), det);
     if (!op) return false;
     addOperation(store, op);
     return true;
@@ -102,6 +106,9 @@ export function generateCandidates(store: OpStore): void {
     testAxis(d, possibleOrders(store, d, ringAtoms));
     testMirror(d);
   }
+  // Close what was found so far: operations that are products of these are then recognised
+  // after the cheap probe instead of being matched on all atoms again.
+  closeUnder(store, [...store.byKey.values()].filter((op) => op.kind !== 'identity'), tol, 256);
   for (const shell of pairShells) {
     const refs = referenceAtoms(y, shell, tol);
     const r0 = atomVector(y, refs[0]);
@@ -129,6 +136,9 @@ export function generateCandidates(store: OpStore): void {
   const { moments } = inertia;
   if (moments[2] - moments[0] <= 0.2 * moments[2]) augmentCubic(store, testAxis);
 }
+
+/** Residual (Å per Å of radius) below which a candidate is taken as exact and not re-fitted. */
+const EXACT_RESIDUAL = 1e-9;
 
 /** Atoms probed before a full match: the two anchors, then atoms spread over the structure. */
 function probeAtoms(store: OpStore): number[] {

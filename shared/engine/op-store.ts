@@ -149,6 +149,19 @@ export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): 
   return null;
 }
 
+/**
+ * An operation taken as it is (its matrix already matches the pairing to rounding error): the
+ * matrix is snapped to the exact element of the pairing's order and the residual re-measured.
+ */
+export function exactOperation(store: OpStore, matrix: Mat3, perm: Int32Array, det: 1 | -1): SymOp | null {
+  let order = permutationOrder(perm, 256);
+  if (det === -1 && order % 2 === 1) order *= 2;
+  const reg = order > 0 && order <= 256 ? regularize(matrix, det, order) : null;
+  if (!reg) return null;
+  const residual = residualWithPermutation(store.mol.y, reg.matrix, perm);
+  return { ...reg.type, key: keyOf(store, perm, det), perm, matrix: reg.matrix, residual, sig: typeSignature(reg.type) };
+}
+
 /** Adds a refined operation unless one with the same key is already known; returns the stored one. */
 export function addOperation(store: OpStore, op: SymOp): SymOp {
   const old = store.byKey.get(op.key);

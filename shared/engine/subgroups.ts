@@ -6,10 +6,10 @@ import { labelElements } from './labels';
 /** Names of D2h and its subgroups: the groups quantum-chemistry codes compute in. */
 export const ABELIAN_D2H_FAMILY = ['D2h', 'D2', 'C2v', 'C2h', 'C2', 'Cs', 'Ci', 'C1'] as const;
 
-function alignedWithAxes(ideal: IdealGroup, members: readonly number[], S: Mat3): boolean {
+/** Per element: does its axis / normal lie along a standard-frame coordinate axis (S: canonical → standard)? */
+function alignedElements(ideal: IdealGroup, S: Mat3): boolean[] {
   const St = transpose3(S);
-  return members.every((k) => {
-    const e = ideal.elements[k];
+  return ideal.elements.map((e) => {
     if (e.kind === 'identity' || e.kind === 'inversion') return true;
     const m = mul3(mul3(S, e.matrix), St);
     // An involution along a coordinate axis is diagonal (entries ±1).
@@ -36,10 +36,18 @@ export function computationalSubgroup(
   for (let k = 1; k < order; k++) if (mul[k * order + k] === 0) inv.push(k);
   const commute = (a: number, b: number) => mul[a * order + b] === mul[b * order + a];
   // Largest first: triples of commuting involutions (order 8), else pairs (4), else one (2).
-  const found = new Map<string, number[]>();
+  // Deduplicate by a numeric hash of the member set (collisions compared element-wise).
+  const found = new Map<number, number[][]>();
+  let count = 0;
   const keep = (members: number[]) => {
     members.sort((a, b) => a - b);
-    found.set(members.join(','), members);
+    let h = 0;
+    for (const m of members) h = (Math.imul(h, 31) + m + 1) | 0;
+    const bucket = found.get(h) ?? [];
+    if (bucket.some((b) => b.length === members.length && b.every((x, i) => x === members[i]))) return;
+    bucket.push(members);
+    found.set(h, bucket);
+    count++;
   };
   for (let x = 0; x < inv.length; x++) {
     for (let y = x + 1; y < inv.length; y++) {
@@ -54,20 +62,22 @@ export function computationalSubgroup(
       }
     }
   }
-  if (found.size === 0) {
+  if (count === 0) {
     for (let x = 0; x < inv.length; x++) {
       for (let y = x + 1; y < inv.length; y++) {
         if (commute(inv[x], inv[y])) keep([0, inv[x], inv[y], mul[inv[x] * order + inv[y]]]);
       }
     }
   }
-  if (found.size === 0) for (const a of inv) keep([0, a]);
-  if (found.size === 0) keep([0]);
+  if (count === 0) for (const a of inv) keep([0, a]);
+  if (count === 0) keep([0]);
+  const aligned = alignedElements(ideal, S);
   const top = [...found.values()]
+    .flat()
     .map((members) => ({
       members,
       name: identifyGroup(members.map((k) => ideal.elements[k])) ?? '?',
-      aligned: alignedWithAxes(ideal, members, S),
+      aligned: members.every((k) => aligned[k]),
       proper: members.filter((k) => ideal.elements[k].det > 0).length,
     }))
     .sort(
