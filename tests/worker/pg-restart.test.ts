@@ -29,7 +29,10 @@ const asPostgres = (cmd: string, args: string[]) => execFileSync('runuser', ['-u
 const pgCtl = (...args: string[]) => asPostgres('pg_ctl', ['-D', join(dir, 'data'), '-l', join(dir, 'log'), '-w', ...args]);
 
 beforeAll(async () => {
-  if (!canRun) return;
+  if (!canRun) {
+    console.warn(`pg-restart test skipped: it needs root and ${PG_BIN}/initdb to run a private PostgreSQL cluster`);
+    return;
+  }
   dir = mkdtempSync('/var/tmp/pf-batches-pg-');
   chownSync(dir, Number(execFileSync('id', ['-u', 'postgres']).toString()), Number(execFileSync('id', ['-g', 'postgres']).toString()));
   port = await freePort();
