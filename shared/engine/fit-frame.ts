@@ -1,4 +1,5 @@
 import type { Analysis, FoundGroup } from './analysis';
+import { EngineError } from './errors';
 import { idealGroup, type IdealGroup } from './groups';
 import { correlation, rotationFromCorrelation } from './kabsch';
 import { basisWithZ, dot3, frobeniusDistance3, identity3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
@@ -37,8 +38,9 @@ export interface FrameFit {
  * every element × generator — methods.md (a) requires π_{gh} = π_g∘π_h) and must map every
  * element onto one of the same type. The first such map whose frame (Procrustes fit of the
  * generator axes) reproduces all found matrices within a Frobenius distance of 0.5 is kept
- * (otherwise the best one). The frame is then refined by alternating projection and Procrustes rotation, which
- * minimises ‖Y − P_Q Y‖ (each step cannot increase it).
+ * (otherwise the best one). The frame is then refined by alternating projection and Procrustes
+ * rotation, which minimises ‖Y − P_Q Y‖ (no step can increase it).
+ * @throws EngineError('internal') if the found operations cannot be arranged as the group.
  * Linear groups: the best line through the centre; D∞h pairs atoms through the centre.
  */
 export function fitGroup(a: Analysis, found: FoundGroup): FrameFit {
@@ -75,7 +77,9 @@ export function fitFinite(
 ): FrameFit {
   const ideal = idealGroup(name);
   const order = ideal.elements.length;
-  if (elements.length !== order) throw new Error(`fit ${name}: ${elements.length} operations for a group of order ${order}`);
+  if (elements.length !== order) {
+    throw new EngineError('internal', `fitting ${name}: ${elements.length} operations for a group of order ${order}`);
+  }
   const byKey = new Map(elements.map((e) => [e.key, e]));
   const bySig = new Map<string, FitElement[]>();
   for (const e of elements) {
@@ -104,7 +108,7 @@ export function fitFinite(
     return false;
   };
   search(0);
-  if (!best) throw new Error(`fit ${name}: no isomorphism from the canonical group onto the found operations`);
+  if (!best) throw new EngineError('internal', `fitting ${name}: the found operations are not arranged like ${name}`);
   const { images } = best as { images: FitElement[]; Q: Mat3 };
   let Q = (best as { Q: Mat3 }).Q;
   const perms = images.map((e) => e.perm);

@@ -1,8 +1,10 @@
 import { groupAt, type Analysis, type FoundGroup } from './analysis';
 
-/** The ladder's tolerance range (Å) and number of log-spaced rungs. */
+/** Lowest tolerance on the ladder (Å). */
 export const LADDER_MIN = 1e-4;
+/** Highest tolerance on the ladder (Å); candidates are searched at least this loosely (analysis.ts). */
 export const LADDER_MAX = 0.3;
+/** Number of log-spaced rungs sampled between them (the issue asks for at least 16). */
 export const LADDER_RUNGS = 24;
 
 /** The log-spaced tolerances 1e-4 … 0.3 Å (24 rungs, both ends included). */

@@ -58,26 +58,32 @@ export function frobeniusDistance3(a: readonly number[], b: readonly number[]): 
   return Math.sqrt(s);
 }
 
+/** a·b. */
 export function dot3(a: readonly number[], b: readonly number[]): number {
   return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
 }
 
+/** a × b (right-handed). */
 export function cross3(a: readonly number[], b: readonly number[]): Vec3 {
   return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 }
 
+/** |a|. */
 export function norm3(a: readonly number[]): number {
   return Math.hypot(a[0], a[1], a[2]);
 }
 
+/** s·a. */
 export function scale3(a: readonly number[], s: number): Vec3 {
   return [a[0] * s, a[1] * s, a[2] * s];
 }
 
+/** a + b. */
 export function add3(a: readonly number[], b: readonly number[]): Vec3 {
   return [a[0] + b[0], a[1] + b[1], a[2] + b[2]];
 }
 
+/** a − b. */
 export function sub3(a: readonly number[], b: readonly number[]): Vec3 {
   return [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
 }

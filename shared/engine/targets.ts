@@ -46,6 +46,7 @@ export function allowedTargets(result: Pick<StructureResult, 'perceivedGroup' | 
   return byOrderDesc([...result.ladder.map((r) => r.group), ...subgroupNames(result.perceivedGroup)]);
 }
 
+/** The chosen target: its fit, the found group it came from (null for a subgroup), a refused name. */
 export interface Target {
   fit: FrameFit;
   found: FoundGroup | null;
