@@ -122,6 +122,23 @@ export interface MatchContext {
 
 const scratch = new Float64Array(1);
 
+/** The partner of atom i under m: nearest atom of i's element to m·yᵢ within tol (−1 if none); squared distance in `out`. */
+function partnerOf(ctx: MatchContext, m: Mat3, i: number, tol: number, out?: Float64Array): number {
+  const { y } = ctx;
+  const x = y[3 * i];
+  const yy = y[3 * i + 1];
+  const z = y[3 * i + 2];
+  return nearestOfKind(
+    ctx.grid,
+    m[0] * x + m[1] * yy + m[2] * z,
+    m[3] * x + m[4] * yy + m[5] * z,
+    m[6] * x + m[7] * yy + m[8] * z,
+    ctx.kinds[i],
+    tol,
+    out,
+  );
+}
+
 /**
  * Applies `m` to every atom and pairs each image with the nearest atom of the same element
  * within `tol` Å. Writes the pairing into `perm` and returns the largest image–partner distance
@@ -129,24 +146,12 @@ const scratch = new Float64Array(1);
  * the same atom. O(N).
  */
 export function matchOperation(ctx: MatchContext, m: Mat3, tol: number, perm: Int32Array): number {
-  const { y, kinds, grid } = ctx;
-  const n = kinds.length;
+  const n = ctx.kinds.length;
   const used = ctx.used;
   used.fill(0);
   let worst = 0;
   for (let i = 0; i < n; i++) {
-    const x = y[3 * i];
-    const yy = y[3 * i + 1];
-    const z = y[3 * i + 2];
-    const j = nearestOfKind(
-      grid,
-      m[0] * x + m[1] * yy + m[2] * z,
-      m[3] * x + m[4] * yy + m[5] * z,
-      m[6] * x + m[7] * yy + m[8] * z,
-      kinds[i],
-      tol,
-      scratch,
-    );
+    const j = partnerOf(ctx, m, i, tol, scratch);
     if (j < 0 || used[j]) return Infinity;
     used[j] = 1;
     perm[i] = j;
@@ -157,20 +162,8 @@ export function matchOperation(ctx: MatchContext, m: Mat3, tol: number, perm: In
 
 /** Like {@link matchOperation} on the listed atoms only, without the one-to-one check; true if all have partners. */
 export function probeOperation(ctx: MatchContext, m: Mat3, tol: number, atoms: readonly number[], images?: Int32Array): boolean {
-  const { y, kinds, grid } = ctx;
   for (let k = 0; k < atoms.length; k++) {
-    const i = atoms[k];
-    const x = y[3 * i];
-    const yy = y[3 * i + 1];
-    const z = y[3 * i + 2];
-    const j = nearestOfKind(
-      grid,
-      m[0] * x + m[1] * yy + m[2] * z,
-      m[3] * x + m[4] * yy + m[5] * z,
-      m[6] * x + m[7] * yy + m[8] * z,
-      kinds[i],
-      tol,
-    );
+    const j = partnerOf(ctx, m, atoms[k], tol);
     if (j < 0) return false;
     if (images) images[k] = j;
   }

@@ -53,7 +53,7 @@ export interface Target {
   notAllowed: string | null;
 }
 
-/** Picks and fits the target group (see {@link snap}). */
+/** Picks and fits the target group for a snap (rules in report.ts `snap`). */
 export function chooseTarget(
   a: Analysis,
   perceived: FoundGroup,

@@ -14,17 +14,7 @@ import { perceive, snap } from '../../shared/engine';
 import { idealGroup } from '../../shared/engine/groups';
 import { apply3, normalize3, rotation3 } from '../../shared/engine/mat3';
 import type { MoleculeInput } from '../../shared/formats/types';
-
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { rng } from '../shared/engine/helpers';
 
 const ELEMENTS = ['C', 'H', 'O', 'N'];
 
