@@ -14,6 +14,7 @@ import { createBatchesRouter } from './modules/batches/router';
 import { createReviewsRouter } from './modules/reviews/router';
 import { createSessionMiddleware } from './modules/auth/session';
 import { createDevMailboxRouter } from './modules/dev-mailbox/router';
+import { createTemplatesRouter } from './modules/templates/router';
 import { createTokensRouter } from './modules/tokens/router';
 import { createWorkspacesRouter } from './modules/workspaces/router';
 import { createHealthRouter } from './modules/health/router';
@@ -50,6 +51,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api', createWorkspacesRouter(deps), createTokensRouter(deps), createAuditRouter(deps), createDevMailboxRouter(deps));
 
   app.use('/api', createBatchesRouter(deps), createReviewsRouter(deps));
+  app.use('/api', createTemplatesRouter(deps));
 
   app.use('/api', apiNotFound);
   const webApp = createWebAppRouter(deps.config.WEB_DIST);

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { atomSchema, flagCodeSchema, structureResultSchema } from './structure';
 import { snapSettingsSchema, targetPolicySchema } from './settings';
+import { describeTemplateProblems, validateTemplate } from '../formats/template';
 
 /**
  * JSON shapes of the REST API (see DEVELOPERS.md, "Routes"). The server parses requests and
@@ -249,3 +250,47 @@ export const devMailMessageSchema = z.object({
 
 /** Body of an error response: `{ error: { code, message } }`. */
 export const apiErrorSchema = z.object({ error: z.object({ code: z.string(), message: z.string() }) });
+
+/** A workspace's export template (GET /api/workspaces/:slug/templates). */
+export const exportTemplateSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  /** Without the dot: decks are written as `<structure>.<fileExtension>`. */
+  fileExtension: z.string(),
+  body: z.string(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+});
+export type ExportTemplateDto = z.infer<typeof exportTemplateSchema>;
+
+/** Largest template body accepted, characters (a deck is a page or two; this leaves room). */
+export const TEMPLATE_BODY_MAX = 100_000;
+
+const templateFields = {
+  name: z.string().trim().min(1, 'name: required').max(100),
+  /** A leading dot is dropped; letters, digits, `_` and `-`, and inner dots (`in.dat`). */
+  fileExtension: z
+    .string()
+    .trim()
+    .transform((e) => e.replace(/^\./, ''))
+    .pipe(z.string().regex(/^[A-Za-z0-9_-]+(\.[A-Za-z0-9_-]+)*$/, 'fileExtension: letters, digits, _ and - (e.g. inp)').max(16)),
+  body: z
+    .string()
+    .min(1, 'body: required')
+    .max(TEMPLATE_BODY_MAX)
+    .superRefine((body, ctx) => {
+      const unknown = validateTemplate(body);
+      if (unknown.length > 0) ctx.addIssue({ code: 'custom', message: `body: ${describeTemplateProblems(unknown)}` });
+    }),
+};
+
+/** POST /api/workspaces/:slug/templates (owners). Unknown placeholders are a 400. */
+export const exportTemplateCreateSchema = z.object(templateFields).strict();
+
+/** PATCH /api/workspaces/:slug/templates/:id (owners): any of the fields. */
+export const exportTemplateUpdateSchema = z
+  .object({ name: templateFields.name.optional(), fileExtension: templateFields.fileExtension.optional(), body: templateFields.body.optional() })
+  .strict();
+
+/** Multipart field `templateIds` of a batch upload: JSON array of template ids (none by default). */
+export const batchTemplateIdsSchema = z.array(z.string()).max(20, 'templateIds: at most 20 templates').default([]);

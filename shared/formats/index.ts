@@ -12,4 +12,4 @@ export { BOND_SLACK, guessBonds } from './molfile';
 export { XYZ_DECIMALS } from './xyz';
 export { centreOfMass, expandUniqueAtoms, readUniqueAtoms, type UniqueAtomsFile } from './unique';
 export { elementFromAtomName } from './pdb';
-export { TEMPLATE_DECIMALS, TEMPLATE_PLACEHOLDERS, renderTemplate, validateTemplate, type RenderTemplateOptions, type TemplatePlaceholder } from './template';
+export { TEMPLATE_DECIMALS, TEMPLATE_PLACEHOLDERS, describeTemplateProblems, renderTemplate, validateTemplate, type RenderTemplateOptions, type TemplatePlaceholder } from './template';

@@ -69,6 +69,15 @@ export function validateTemplate(body: string): string[] {
   return unknown;
 }
 
+/**
+ * The problems {@link validateTemplate} found, as one line for a form or an API error:
+ * `unknown placeholder {{chrage}}, {{Group}}` / `… {{charge} (not closed)`.
+ */
+export function describeTemplateProblems(unknown: readonly string[]): string {
+  const items = unknown.map((u) => (u.startsWith('{{') ? `${u} (not closed)` : `{{${u}}}`));
+  return `unknown placeholder${items.length > 1 ? 's' : ''} ${items.join(', ')}`;
+}
+
 /** One line per atom: `El  x  y  z`, coordinates × `scale` with {@link TEMPLATE_DECIMALS} decimals. */
 function geometryLines(atoms: StructureResult['atoms'], scale: number): string {
   return atoms

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import type { Batch, Structure } from './entity';
 import { effectiveSettings } from './service';
 
@@ -30,7 +31,7 @@ export function manifestEntry(batch: Pick<Batch, 'settings'>, s: Structure, outp
 }
 
 /** The head of manifest.json (everything before the structures). */
-export function manifestHead(batch: Batch, slug: string): string {
+export function manifestHead(batch: Batch, slug: string, templates: readonly { name: string; fileExtension: string; body: string }[] = []): string {
   const head = {
     pointfoldManifest: MANIFEST_VERSION,
     batch: {
@@ -42,6 +43,8 @@ export function manifestHead(batch: Batch, slug: string): string {
       finishedAt: batch.finishedAt?.toISOString() ?? null,
       settings: batch.settings,
       files: batch.files,
+      // Only when the batch has any, so manifests of batches without templates stay as they were.
+      ...(templates.length > 0 ? { exportTemplates: templates.map((t) => ({ name: t.name, fileExtension: t.fileExtension, bodySha256: createHash('sha256').update(t.body).digest('hex') })) } : {}),
     },
     generatedAt: new Date().toISOString(),
   };

@@ -6,6 +6,7 @@ import { badRequest, DomainError } from '../../errors';
 import { uploadRateLimit } from '../../middleware/rate-limit';
 import { createBatchQueue, type BatchQueue } from '../../queue/batch-queue';
 import { recordAudit } from '../audit/service';
+import { createTemplateRepository } from '../templates/repository';
 import { ANY_ROLE, workspaceAccess, WRITERS } from '../workspaces/access';
 import { slugParams } from '../workspaces/params';
 import { createBatchRepository } from './repository';
@@ -44,6 +45,7 @@ export function createBatchesRouter(deps: AppDeps & { queue?: BatchQueue }): Rou
   const { config, dataSource, logger } = deps;
   const queue = deps.queue ?? createBatchQueue({ connection: deps.redis, prefix: config.QUEUE_PREFIX });
   const repo = createBatchRepository(dataSource);
+  const templateRepo = createTemplateRepository(dataSource);
   const service = createBatchService({ config, logger, repo, queue });
   const router = Router();
 
@@ -96,6 +98,7 @@ export function createBatchesRouter(deps: AppDeps & { queue?: BatchQueue }): Rou
     const input: CreateBatchInput = {
       name: typeof body.name === 'string' ? body.name : undefined,
       settings: typeof body.settings === 'string' ? body.settings : undefined,
+      templateIds: body.templateIds,
     };
     const batch = await service.createBatch(req.access!, req.auth!.userId, input, uploads(req));
     res.status(201).location(`/api/batches/${batch.id}`).json(batch);
@@ -136,6 +139,7 @@ export function createBatchesRouter(deps: AppDeps & { queue?: BatchQueue }): Rou
         batch,
         workspaceSlug: access.workspace.slug,
         page: (afterSeq, limit) => repo.structuresPage(batch.id, access.workspace.id, afterSeq, limit),
+        templates: await templateRepo.batchCopies(batch.id),
         logger,
       });
     } catch (err) {

@@ -18,6 +18,8 @@ import { badRequest, DomainError, notFound } from '../../errors';
 import type { Logger } from '../../logger';
 import type { BatchQueue } from '../../queue/batch-queue';
 import { recordAudit } from '../audit/service';
+import { createTemplateRepository } from '../templates/repository';
+import { parseTemplateIdsField, resolveBatchTemplates } from '../templates/service';
 import { ReviewEvent } from '../reviews/entity';
 import { assertRole, UUID_PATTERN, WRITERS, type WorkspaceAccess } from '../workspaces/access';
 import type { Batch, Structure } from './entity';
@@ -41,6 +43,8 @@ export interface CreateBatchInput {
   name?: string;
   /** JSON text of a (partial) SnapSettings; workspace defaults fill the rest. */
   settings?: string;
+  /** The multipart field `templateIds` as received: export templates to render per structure. */
+  templateIds?: unknown;
 }
 
 const MIME: Record<OutputFormat, string> = {
@@ -145,6 +149,7 @@ export function effectiveSettings(batch: Pick<Batch, 'settings'>, s: Pick<Struct
 export function createBatchService(deps: BatchServiceDeps) {
   const { repo, queue, config, logger } = deps;
   const ds = repo.dataSource;
+  const templateRepo = createTemplateRepository(ds);
 
   /** The batch, read scoped to the caller's workspace; 404 for an unknown id or another workspace's batch. */
   async function scopedBatch(access: WorkspaceAccess, id: string): Promise<Batch> {
@@ -182,6 +187,8 @@ export function createBatchService(deps: BatchServiceDeps) {
     async createBatch(access: WorkspaceAccess, userId: string, input: CreateBatchInput, uploads: readonly UploadedFile[]): Promise<BatchDetail> {
       assertRole(access, WRITERS);
       const settings = resolveSettings(access.workspace.defaults ?? {}, input.settings);
+      // Copied into the batch below, so later edits of a template never change this batch's decks.
+      const templates = await resolveBatchTemplates(templateRepo, access.workspace.id, parseTemplateIdsField(input.templateIds));
       const t0 = performance.now();
       const { files, structures } = await ingestUploads(uploads, limits);
       const t1 = performance.now();
@@ -198,11 +205,12 @@ export function createBatchService(deps: BatchServiceDeps) {
           total: structures.length,
         });
         await repo.insertStructures(m, b, structures);
+        await templateRepo.insertBatchCopies(m, b.id, templates);
         await recordAudit(m, {
           workspaceId: access.workspace.id,
           actorId: userId,
           action: 'batch.created',
-          detail: { batchId: b.id, name, files: files.length, structures: structures.length },
+          detail: { batchId: b.id, name, files: files.length, structures: structures.length, ...(templates.length > 0 ? { templates: templates.map((t) => t.name) } : {}) },
         });
         return b;
       });

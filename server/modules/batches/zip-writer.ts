@@ -1,7 +1,7 @@
 import { Readable, type Writable } from 'node:stream';
 import { ZipArchive } from 'archiver';
 import type { OutputFormat } from '@shared/contracts/settings';
-import { outputFileName } from '@shared/formats';
+import { OUTPUT_EXTENSIONS, outputFileName, renderTemplate } from '@shared/formats';
 import type { Logger } from '../../logger';
 import type { Batch, Structure } from './entity';
 import { MANIFEST_TAIL, manifestEntry, manifestHead, SUMMARY_HEADER, summaryRow } from './manifest';
@@ -13,6 +13,8 @@ export interface BatchZipSource {
   /** Structures after `afterSeq` in upload order, at most `limit`. */
   page(afterSeq: number, limit: number): Promise<Structure[]>;
   logger: Logger;
+  /** Export templates the batch was uploaded with (its own copies): one rendered deck per structure each. */
+  templates?: readonly { name: string; fileExtension: string; body: string }[];
 }
 
 const PAGE = 200;
@@ -39,6 +41,7 @@ function uniqueName(taken: Set<string>, name: string): string {
 export async function writeBatchZip(out: Writable, source: BatchZipSource): Promise<{ files: number; bytes: number }> {
   const { batch } = source;
   const formats = batch.settings.outputFormats as OutputFormat[];
+  const templates = source.templates ?? [];
   const archive = new ZipArchive({ zlib: { level: 6 } });
   let processed = 0;
   let appended = 0;
@@ -98,6 +101,17 @@ export async function writeBatchZip(out: Writable, source: BatchZipSource): Prom
         appended++;
         names.push(name);
       }
+      if (templates.length > 0) {
+        // `<structure base name>.<extension>`: the cleaned files' stem, so a deck sits beside its geometry.
+        const xyzName = outputFileName(s.sourceFile, s.frameIndex, s.frameCount, 'xyz');
+        const stem = xyzName.slice(0, xyzName.length - OUTPUT_EXTENSIONS.xyz.length);
+        for (const t of templates) {
+          const name = uniqueName(taken, `${stem}.${t.fileExtension}`);
+          archive.append(renderTemplate(t.body, s.result), { name });
+          appended++;
+          names.push(name);
+        }
+      }
       outputFiles.set(s.id, names);
     }
     await drained();
@@ -122,7 +136,7 @@ export async function writeBatchZip(out: Writable, source: BatchZipSource): Prom
   archive.append(
     Readable.from(
       (async function* () {
-        yield manifestHead(batch, source.workspaceSlug);
+        yield manifestHead(batch, source.workspaceSlug, templates);
         yield* pages((s, first) => (first ? '' : ',\n') + '    ' + JSON.stringify(manifestEntry(batch, s, outputFiles.get(s.id) ?? [], writeErrors.get(s.id))));
         yield MANIFEST_TAIL;
       })(),
