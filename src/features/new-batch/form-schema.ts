@@ -7,10 +7,12 @@ export const newBatchFormSchema = z.object({
   name: z.string().trim().max(200),
   files: z.array(z.instanceof(File)).min(1),
   settings: snapSettingsFormSchema,
+  /** Export templates to render per structure into the batch ZIP (ids, in the order chosen). */
+  templateIds: z.array(z.string()),
 });
 
-export type NewBatchFormInput = { name: string; files: File[]; settings: SnapSettingsFormValues };
-export type NewBatchValues = { name: string; files: File[]; settings: SnapSettings };
+export type NewBatchFormInput = { name: string; files: File[]; settings: SnapSettingsFormValues; templateIds: string[] };
+export type NewBatchValues = { name: string; files: File[]; settings: SnapSettings; templateIds: string[] };
 
 export const newBatchMessages = {
   files: 'Add at least one file or ZIP.',

@@ -1,5 +1,6 @@
 import type { LoaderFunctionArgs } from 'react-router-dom';
 import { meQueryOptions } from '@/lib/me';
+import { exportTemplatesQueryOptions } from '@/lib/export-templates';
 import { queryClient } from '@/lib/query-client';
 import { invitationsQueryOptions } from './api/get-invitations';
 import { membersQueryOptions } from './api/get-members';
@@ -15,6 +16,7 @@ export async function loader({ params }: LoaderFunctionArgs) {
     queryClient.ensureQueryData(membersQueryOptions(slug)),
     queryClient.ensureQueryData(tokensQueryOptions(slug)),
     owner ? queryClient.ensureQueryData(invitationsQueryOptions(slug)) : null,
+    owner ? queryClient.ensureQueryData(exportTemplatesQueryOptions(slug)) : null,
   ]);
   return null;
 }

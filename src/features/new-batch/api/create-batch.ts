@@ -9,6 +9,8 @@ export interface CreateBatchInput {
   name: string;
   files: readonly File[];
   settings: SnapSettings;
+  /** Export templates chosen for the batch; omitted from the upload when empty. */
+  templateIds?: readonly string[];
 }
 
 /**
@@ -19,6 +21,7 @@ export function createBatch(slug: string, input: CreateBatchInput, onProgress?: 
   const form = new FormData();
   form.append('name', input.name);
   form.append('settings', JSON.stringify(input.settings));
+  if (input.templateIds && input.templateIds.length > 0) form.append('templateIds', JSON.stringify(input.templateIds));
   for (const file of input.files) form.append('files', file, file.name);
   const sizes = input.files.map((f) => f.size);
   return postWithProgress(`/api/workspaces/${encodeURIComponent(slug)}/batches`, form, {

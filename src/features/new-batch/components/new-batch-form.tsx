@@ -1,6 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { ReactNode } from 'react';
 import { Controller, FormProvider, useForm } from 'react-hook-form';
+import type { ExportTemplateDto } from '@shared/contracts/api';
 import type { SnapSettings } from '@shared/contracts/settings';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
@@ -17,6 +18,7 @@ import { DropZone } from './drop-zone';
  */
 export function NewBatchForm({
   defaults,
+  templates = [],
   onSubmit,
   onFilesChange,
   preview,
@@ -25,6 +27,8 @@ export function NewBatchForm({
   submitError,
 }: {
   defaults: SnapSettings;
+  /** The workspace's export templates; the choice is hidden when there are none. */
+  templates?: readonly ExportTemplateDto[];
   onSubmit: (values: NewBatchValues) => void | Promise<void>;
   onFilesChange?: (files: File[]) => void;
   preview?: ReactNode;
@@ -38,6 +42,7 @@ export function NewBatchForm({
       name: '',
       files: [],
       settings: toFormSettings(defaults),
+      templateIds: [],
     },
     mode: 'onSubmit',
     reValidateMode: 'onChange',
@@ -83,6 +88,36 @@ export function NewBatchForm({
           <p className="-mt-3 text-sm text-ink-soft">Starting from this workspace’s defaults. Lengths in Å.</p>
           <SnapSettingsFields prefix="settings" idPrefix="nb" />
         </section>
+
+        {templates.length > 0 && (
+          <section aria-labelledby="nb-templates" className="flex flex-col gap-3">
+            <h2 id="nb-templates" className="text-base font-semibold">
+              3 · Export templates
+            </h2>
+            <p className="-mt-2 text-sm text-ink-soft">Each chosen template adds one filled-in deck per structure to the download.</p>
+            <Controller
+              control={control}
+              name="templateIds"
+              render={({ field }) => (
+                <fieldset className="flex flex-col gap-1.5">
+                  <legend className="sr-only">Export templates for this batch</legend>
+                  {templates.map((t) => (
+                    <label key={t.id} className="flex items-center gap-2 text-sm">
+                      <input
+                        type="checkbox"
+                        checked={field.value.includes(t.id)}
+                        disabled={submitting}
+                        onChange={(e) => field.onChange(e.target.checked ? [...field.value, t.id] : field.value.filter((id) => id !== t.id))}
+                      />
+                      <span className="font-medium">{t.name}</span>
+                      <span className="num text-xs text-ink-soft">*.{t.fileExtension}</span>
+                    </label>
+                  ))}
+                </fieldset>
+              )}
+            />
+          </section>
+        )}
 
         <section aria-labelledby="nb-submit" className="flex flex-col gap-4 border-t border-rule pt-6">
           <h2 id="nb-submit" className="sr-only">

@@ -1,7 +1,9 @@
+import { useQuery } from '@tanstack/react-query';
 import { useEffect, useRef, useState } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { PageHeader } from '@/components/ui/page-header';
 import { ErrorState } from '@/components/ui/states';
+import { exportTemplatesQueryOptions } from '@/lib/export-templates';
 import { canWrite, useCurrentWorkspace } from '@/lib/workspace-context';
 import { useCreateBatch } from '../api/create-batch';
 import { usePreviewBatch } from '../api/preview-batch';
@@ -15,6 +17,8 @@ export function NewBatchPage() {
   const preview = usePreviewBatch(workspace.slug);
   const create = useCreateBatch(workspace.slug);
   const [files, setFiles] = useState<File[]>([]);
+  // Not a loader dependency: the form is usable at once, the template choice appears when known.
+  const templates = useQuery({ ...exportTemplatesQueryOptions(workspace.slug), enabled: canWrite(role) });
   const previewRef = useRef(preview);
   previewRef.current = preview;
 
@@ -42,6 +46,7 @@ export function NewBatchPage() {
       <PageHeader eyebrow={workspace.name} title="New batch" description="Perceive each structure’s point group, snap it onto exact symmetry, and get clean input files back." />
       <NewBatchForm
         defaults={workspace.defaults}
+        templates={templates.data}
         onFilesChange={setFiles}
         preview={
           files.length > 0 && (

@@ -7,6 +7,7 @@ import { DefaultsSection } from './defaults-section';
 import { DevMailboxSection } from './dev-mailbox-section';
 import { InvitationsSection } from './invitations-section';
 import { MembersSection } from './members-section';
+import { TemplatesSection } from './templates-section';
 import { TokensSection } from './tokens-section';
 
 /**
@@ -23,6 +24,7 @@ export function SettingsPage() {
         ['invitations', 'Invitations'],
         ['tokens', 'API tokens'],
         ['defaults', 'Defaults'],
+        ['templates', 'Export templates'],
         ['audit', 'Audit log'],
       ]
     : [
@@ -35,7 +37,7 @@ export function SettingsPage() {
       <PageHeader
         eyebrow={workspace.name}
         title={owner ? 'Workspace settings' : 'Your API tokens'}
-        description={owner ? 'Members and roles, invitations, API tokens, defaults for new batches, and the audit log.' : 'Tokens for the command line, and who is in this workspace.'}
+        description={owner ? 'Members and roles, invitations, API tokens, defaults for new batches, export templates, and the audit log.' : 'Tokens for the command line, and who is in this workspace.'}
       />
       <nav aria-label="On this page" className="mb-8 flex flex-wrap gap-1.5 text-sm">
         {sections.map(([id, label]) => (
@@ -51,6 +53,7 @@ export function SettingsPage() {
             <InvitationsSection slug={workspace.slug} />
             <TokensSection slug={workspace.slug} owner />
             <DefaultsSection key={JSON.stringify(workspace.defaults)} slug={workspace.slug} defaults={workspace.defaults} />
+            <TemplatesSection slug={workspace.slug} />
             <AuditSection slug={workspace.slug} />
             <DevMailboxSection slug={workspace.slug} />
           </>
