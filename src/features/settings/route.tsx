@@ -16,8 +16,9 @@ export async function loader({ params }: LoaderFunctionArgs) {
     queryClient.ensureQueryData(membersQueryOptions(slug)),
     queryClient.ensureQueryData(tokensQueryOptions(slug)),
     owner ? queryClient.ensureQueryData(invitationsQueryOptions(slug)) : null,
-    owner ? queryClient.ensureQueryData(exportTemplatesQueryOptions(slug)) : null,
   ]);
+  // Warmed, not awaited: the rest of the page must not wait for (or fail with) the templates.
+  if (owner) void queryClient.prefetchQuery(exportTemplatesQueryOptions(slug));
   return null;
 }
 

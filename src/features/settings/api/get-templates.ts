@@ -1,7 +1,7 @@
-import { useSuspenseQuery } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { exportTemplatesQueryOptions } from '@/lib/export-templates';
 
-/** The workspace's export templates (the loader warms them for owners). */
+/** The workspace's export templates (the loader starts the request; the section waits for it alone). */
 export function useExportTemplates(slug: string) {
-  return useSuspenseQuery(exportTemplatesQueryOptions(slug)).data;
+  return useQuery(exportTemplatesQueryOptions(slug));
 }

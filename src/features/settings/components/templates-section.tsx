@@ -17,7 +17,8 @@ import { TemplateForm } from './template-form';
  * deleting a template here never changes a finished batch.
  */
 export function TemplatesSection({ slug }: { slug: string }) {
-  const templates = useExportTemplates(slug);
+  const query = useExportTemplates(slug);
+  const templates = query.data ?? [];
   const save = useSaveTemplate(slug);
   const remove = useDeleteTemplate(slug);
   const [editing, setEditing] = useState<ExportTemplate | 'new' | null>(null);
@@ -54,7 +55,10 @@ export function TemplatesSection({ slug }: { slug: string }) {
         </div>
       )}
       {remove.error && <InlineError>{remove.error.message}</InlineError>}
-      {templates.length === 0 ? (
+      {query.error && <InlineError>Export templates could not be loaded: {query.error.message}</InlineError>}
+      {query.isPending ? (
+        <p className="text-sm text-ink-soft">Loading templates…</p>
+      ) : query.error ? null : templates.length === 0 ? (
         editing === null && <EmptyState title="No export templates">Add one to hand out ready-to-run decks with every batch.</EmptyState>
       ) : (
         <Table caption="Export templates" hideCaption>
