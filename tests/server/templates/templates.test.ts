@@ -12,8 +12,9 @@ import { get, getBinary, member, unzip, upload, waitForBatch, type Member } from
  * Export templates on the real PostgreSQL and Redis: owners keep them, chemists choose them for a
  * batch, and the batch ZIP holds one rendered deck per structure. Molecules: water (r(OH) 0.9578 Å,
  * ∠HOH 104.4776°) and ammonia (r(NH) 1.012 Å, ∠HNH 106.7°), NIST CCCBDB; point groups C2v and
- * C3v (CCCBDB). Computational subgroups: C2v for C2v, Cs for C3v (the largest D2h-type subgroup,
- * as in the project's reference list).
+ * C3v (CCCBDB). Computational subgroups: C2v for water (the project's reference list, #6 → C2v);
+ * Cs for C3v ammonia (the D2h-type subgroups of C3v are Cs and C1 only — subgroup tables of the
+ * point groups, quoted from memory).
  */
 
 const DECK = ['! neutral placeholder deck for {{name}}', 'charge {{charge}} spin {{multiplicity}}', 'symmetry {{group}} use {{subgroup}}', 'atoms {{natoms}}', '{{geometry}}', 'end', ''].join('\n');
