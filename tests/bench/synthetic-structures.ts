@@ -4,6 +4,7 @@
  * shifted and given uniform noise). Groups are built from generator matrices here, independently
  * of the engine, so the engine's answer can be compared with the construction.
  */
+import { mulberry32 } from '../support/random';
 
 type M3 = number[];
 
@@ -64,17 +65,8 @@ export function closeGroup(gens: M3[]): M3[] {
   return [...seen.values()];
 }
 
-/** A small seeded PRNG (mulberry32), so that benchmarks are repeatable. */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded PRNG shared by all tests (tests/support/random.ts). */
+export const rng = mulberry32;
 
 export interface SyntheticStructure {
   group: string;

@@ -7,18 +7,10 @@ import type { AtomJson } from '@shared/contracts/structure';
 import type { MoleculeInput } from '@shared/formats/types';
 import { idealGroup } from '@shared/engine/groups';
 import { apply3, normalize3, rotation3, type Mat3 } from '@shared/engine/mat3';
+import { mulberry32 } from '../../support/random';
 
-/** Mulberry32 PRNG (common practice), deterministic per seed; values in [0, 1). */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded PRNG shared by all tests (tests/support/random.ts). */
+export const rng = mulberry32;
 
 /** Synthetic structure: the orbit of each seed point under the ideal group `name` (canonical frame). */
 export function orbit(name: string, seeds: readonly { element: string; p: readonly number[] }[]): AtomJson[] {

@@ -6,6 +6,7 @@
  * shared/contracts/structure.ts.
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { mulberry32 } from '../../support/random';
 
 export type Vec3 = [number, number, number];
 export type Mat3 = number[];
@@ -146,17 +147,8 @@ export function orbit(group: readonly Mat3[], seed: Vec3): Vec3[] {
   return out;
 }
 
-/** Mulberry32: a tiny seeded PRNG (public-domain algorithm), so every random case is reproducible. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded PRNG shared by all tests (tests/support/random.ts). */
+export { mulberry32 };
 
 /**
  * Uniformly distributed random rotation from three uniforms in [0,1) (Shoemake's quaternion

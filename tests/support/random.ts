@@ -1,0 +1,15 @@
+/**
+ * Mulberry32, a tiny seeded PRNG (public-domain algorithm; common practice for reproducible
+ * tests): the same seed gives the same sequence of values in [0, 1) on every machine, so every
+ * random test case and benchmark input can be reproduced.
+ */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
