@@ -1,13 +1,8 @@
-import { spawn } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startProcessors } from '../../../worker/processors/index';
-import { buildTestApp, type TestApp } from '../../support/app';
-import { createTestDatabase, type TestDatabase } from '../../support/db';
-import { member, type Member } from './support';
+import { describe, expect, it } from 'vitest';
+import { runProcess, useRunningServer, type ProcessResult } from './running-server';
 
 /*
  * The command line against a running server: `token create` on the database, `submit --wait
@@ -18,40 +13,14 @@ import { member, type Member } from './support';
 const repoRoot = fileURLToPath(new URL('../../..', import.meta.url));
 const demo = (name: string) => join(repoRoot, 'examples/demo', name);
 
-function cli(args: string[], env: Record<string, string> = {}): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', 'server/cli/index.ts', ...args], { cwd: repoRoot, env: { ...process.env, ...env } });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (c: Buffer) => (stdout += c.toString()));
-    child.stderr.on('data', (c: Buffer) => (stderr += c.toString()));
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
+const cli = (args: string[], env: Record<string, string> = {}): Promise<ProcessResult> =>
+  runProcess(process.execPath, ['--import', 'tsx', 'server/cli/index.ts', ...args], { cwd: repoRoot, env });
 
-let db: TestDatabase;
-let t: TestApp;
-let processors: { close(): Promise<void> };
-let chemist: Member;
-let out: string;
-
-beforeAll(async () => {
-  db = await createTestDatabase();
-  t = await buildTestApp({ dataSource: db.dataSource });
-  chemist = await member(db.dataSource, 'chemist');
-  processors = await startProcessors(t.deps, { sweepIntervalMs: 1000 });
-  out = mkdtempSync(join(tmpdir(), 'pf-submit-'));
-});
-
-afterAll(async () => {
-  await processors?.close();
-  await t?.close();
-  await db?.drop();
-  rmSync(out, { recursive: true, force: true });
-});
+const server = useRunningServer('pf-submit-');
 
 describe('pointfold token create', () => {
   it('prints a working API token for a member, and refuses unknown users', async () => {
+    const { db, t, chemist } = server;
     const made = await cli(['token', 'create', '--email', chemist.user.email.toUpperCase()], { DATABASE_URL: db.url });
     expect(made.code, made.stderr).toBe(0);
     const token = made.stdout.trim();
@@ -68,6 +37,7 @@ describe('pointfold token create', () => {
 
 describe('pointfold submit', () => {
   it('uploads, waits, unpacks cleaned files and manifest.json whose groups match pointfold snap', async () => {
+    const { t, chemist, out } = server;
     const files = [demo('ligands.xyz'), demo('complexes.sdf')];
     const run = await cli(['submit', ...files, '--server', t.url, '--token', chemist.token, '--tolerance', '0.1', '--wait', '--out', out]);
     // ligands.xyz holds one unreadable frame: status 1, named on stderr, the rest delivered.
@@ -97,6 +67,7 @@ describe('pointfold submit', () => {
   }, 120_000);
 
   it('exits 0 when every structure was snapped, 2 on a usage error, 1 with a bad token', async () => {
+    const { t, chemist } = server;
     const ok = await cli(['submit', demo('complexes.sdf'), '--server', t.url, '--token', chemist.token, '--wait']);
     expect(ok.code, ok.stderr).toBe(0);
     const usage = await cli(['submit', demo('complexes.sdf'), '--token', chemist.token]);
