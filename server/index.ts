@@ -5,7 +5,7 @@ import { createApp } from './app';
 import { createDataSource } from './db/data-source';
 import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
-import { watchParent } from './ops/parent-watch';
+import { installShutdown } from './ops/graceful-shutdown';
 import { describeStartupError, loadConfigOrExit } from './ops/startup-errors';
 
 const SHUTDOWN_DEADLINE_MS = 10_000;
@@ -33,25 +33,17 @@ try {
 }
 logger.info({ url: `http://${config.HOST}:${config.PORT}` }, 'API listening');
 
-let stopping = false;
-async function shutdown(reason: string) {
-  if (stopping) return;
-  stopping = true;
-  logger.info({ reason }, 'shutting down');
-  const deadline = setTimeout(() => {
-    logger.error('requests still open after the deadline; exiting anyway');
-    process.exit(1);
-  }, SHUTDOWN_DEADLINE_MS);
-  deadline.unref();
-  // Stop accepting, let requests in flight finish, drop idle keep-alive sockets.
-  await new Promise<void>((resolve) => {
-    server?.close(() => resolve());
-    server?.closeIdleConnections();
-  });
-  await Promise.allSettled([dataSource.destroy(), redis.quit()]);
-  logger.info('stopped');
-  process.exit(0);
-}
-process.on('SIGTERM', () => void shutdown('SIGTERM'));
-process.on('SIGINT', () => void shutdown('SIGINT'));
-watchParent(() => void shutdown('parent process exited'));
+installShutdown({
+  logger,
+  deadlineMs: SHUTDOWN_DEADLINE_MS,
+  announce: 'shutting down',
+  deadlineMessage: 'requests still open after the deadline; exiting anyway',
+  async stop() {
+    // Stop accepting, let requests in flight finish, drop idle keep-alive sockets.
+    await new Promise<void>((resolve) => {
+      server?.close(() => resolve());
+      server?.closeIdleConnections();
+    });
+    await Promise.allSettled([dataSource.destroy(), redis.quit()]);
+  },
+});

@@ -5,7 +5,7 @@ import { createDataSource } from '../server/db/data-source';
 import { createLogger } from '../server/logger';
 import { createMailer } from '../server/mail/mailer';
 import { newWorkerId, startHeartbeat, type Heartbeat } from '../server/modules/health/heartbeat';
-import { watchParent } from '../server/ops/parent-watch';
+import { installShutdown } from '../server/ops/graceful-shutdown';
 import { describeStartupError, loadConfigOrExit } from '../server/ops/startup-errors';
 import { startProcessors } from './processors/index';
 
@@ -38,23 +38,15 @@ try {
 }
 logger.info({ workerId, prefix: config.QUEUE_PREFIX }, 'worker ready');
 
-let stopping = false;
-async function shutdown(reason: string) {
-  if (stopping) return;
-  stopping = true;
-  logger.info({ reason }, 'shutting down: finishing the job in hand');
-  const deadline = setTimeout(() => {
-    // BullMQ hands a job whose lock lapses back to the queue, so another worker picks it up.
-    logger.error('the job in hand did not finish before the deadline; exiting, it will be retried');
-    process.exit(1);
-  }, SHUTDOWN_DEADLINE_MS);
-  deadline.unref();
-  await heartbeat?.stop();
-  await processors?.close();
-  await Promise.allSettled([dataSource.destroy(), redis.quit()]);
-  logger.info('stopped');
-  process.exit(0);
-}
-process.on('SIGTERM', () => void shutdown('SIGTERM'));
-process.on('SIGINT', () => void shutdown('SIGINT'));
-watchParent(() => void shutdown('parent process exited'));
+installShutdown({
+  logger,
+  deadlineMs: SHUTDOWN_DEADLINE_MS,
+  announce: 'shutting down: finishing the job in hand',
+  // BullMQ hands a job whose lock lapses back to the queue, so another worker picks it up.
+  deadlineMessage: 'the job in hand did not finish before the deadline; exiting, it will be retried',
+  async stop() {
+    await heartbeat?.stop();
+    await processors?.close();
+    await Promise.allSettled([dataSource.destroy(), redis.quit()]);
+  },
+});
