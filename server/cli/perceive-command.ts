@@ -1,8 +1,8 @@
-import { isEngineError, ladder, perceive } from '@shared/engine';
-import { formatParseFailure } from '@shared/formats/types';
-import { loadInputs, type InputItem } from './load-inputs';
-import { EXIT_BAD_INPUT, EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
-import { BufferedOut, formatLength, formatOrder, hillFormula, printError, progress, renderTable } from './output';
+import { ladder, perceive } from '@shared/engine';
+import { eachStructure, type LoadedStructure } from './each-structure';
+import { loadInputs } from './load-inputs';
+import { EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
+import { BufferedOut, formatLength, formatOrder, hillFormula, renderTable } from './output';
 
 export const PERCEIVE_HELP = `Usage: pointfold perceive FILE... [options]
 
@@ -33,7 +33,7 @@ Options:
 
 Exit status: 0 all done; 1 bad input; 2 usage error.`;
 
-type Analyse = (item: Extract<InputItem, { ok: true }>) => Record<string, unknown>;
+type Analyse = (item: LoadedStructure) => Record<string, unknown>;
 
 /** The shared loop of perceive and ladder: read, analyse each structure, report in input order. */
 async function runEach(command: string, argv: string[], withTolerance: boolean, help: string, analyse: (tolerance: number | undefined) => Analyse, text: (entries: Record<string, unknown>[]) => string): Promise<number> {
@@ -53,35 +53,11 @@ async function runEach(command: string, argv: string[], withTolerance: boolean, 
   const items = await loadInputs(positionals, { maxAtoms });
   const fn = analyse(tolerance);
   const out = new BufferedOut();
-  const bar = progress(command, items.length);
-  const entries: Record<string, unknown>[] = [];
-  let status = EXIT_OK;
-  if (values.json) out.write('{"structures":[');
-  items.forEach((item, k) => {
-    bar.tick(k);
-    let entry: Record<string, unknown>;
-    if (!item.ok) {
-      const message = formatParseFailure(item.error);
-      printError(message);
-      status = EXIT_BAD_INPUT;
-      entry = { name: `${item.error.file}#${item.error.frame + 1}`, inputFile: item.error.file, frameIndex: item.error.frame, error: message };
-    } else {
-      const m = item.molecule;
-      try {
-        entry = { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, formula: hillFormula(m.atoms.map((a) => a.element)), ...fn(item) };
-      } catch (e) {
-        if (!isEngineError(e)) throw e;
-        const message = formatParseFailure({ file: m.sourceFile, frame: m.frameIndex, line: null, message: e.message });
-        printError(message);
-        status = EXIT_BAD_INPUT;
-        entry = { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, error: message };
-      }
-    }
-    if (values.json) out.write(`${k > 0 ? ',' : ''}\n${JSON.stringify(entry)}`);
-    else entries.push(entry);
+  const { status, outcomes } = eachStructure(command, items, Boolean(values.json), out, (item) => {
+    const m = item.molecule;
+    return { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, formula: hillFormula(m.atoms.map((a) => a.element)), ...fn(item) };
   });
-  bar.done();
-  out.write(values.json ? '\n]}\n' : `${text(entries)}\n`);
+  if (!values.json) out.write(`${text(outcomes.map((o) => o.entry))}\n`);
   out.flush();
   return status;
 }

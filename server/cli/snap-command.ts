@@ -2,12 +2,12 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { outputFormats, snapSettingsSchema, type OutputFormat, type SnapSettings, type TargetPolicy } from '@shared/contracts/settings';
 import type { StructureResult } from '@shared/contracts/structure';
-import { isEngineError, parseGroupName, snap } from '@shared/engine';
+import { parseGroupName, snap } from '@shared/engine';
 import { OUTPUT_EXTENSIONS, outputFileName, verifyWritten, writeStructure } from '@shared/formats/write';
-import { formatParseFailure } from '@shared/formats/types';
+import { eachStructure } from './each-structure';
 import { loadInputs } from './load-inputs';
-import { EXIT_BAD_INPUT, EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
-import { BufferedOut, formatCsm, formatLength, formatOrder, printError, progress, renderTable } from './output';
+import { EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
+import { BufferedOut, formatCsm, formatLength, formatOrder, renderTable } from './output';
 
 export const SNAP_HELP = `Usage: pointfold snap FILE... [options]
 
@@ -99,65 +99,38 @@ export async function runSnap(argv: string[]): Promise<number> {
 
   const items = await loadInputs(positionals, { maxAtoms });
   const out = new BufferedOut();
-  const bar = progress('snap', items.length);
-  let status = EXIT_OK;
   const usedNames = new Set<string>();
-  const rows: { result?: StructureResult; name: string; error?: string }[] = [];
   if (values.out != null) mkdirSync(values.out, { recursive: true });
-  if (values.json) out.write('{"structures":[');
-
-  items.forEach((item, k) => {
-    bar.tick(k);
-    let entry: Record<string, unknown>;
-    if (!item.ok) {
-      const message = formatParseFailure(item.error);
-      printError(message);
-      status = EXIT_BAD_INPUT;
-      const name = `${item.error.file}#${item.error.frame + 1}`;
-      entry = { name, inputFile: item.error.file, frameIndex: item.error.frame, error: message };
-      rows.push({ name, error: item.error.message });
-    } else {
-      const m = item.molecule;
-      try {
-        const result = snap(m, settings);
-        entry = { ...result, inputFile: m.sourceFile, frameIndex: m.frameIndex };
-        if (values.out != null) {
-          // Every format is written and checked before any file is saved: all or nothing.
-          const texts = settings.outputFormats.map((format) => {
-            const text = writeStructure(format, result);
-            verifyWritten(format, text, result);
-            return { format, text };
-          });
-          const written: string[] = [];
-          for (const { format, text } of texts) {
-            const first = outputFileName(m.sourceFile, m.frameIndex, item.frameCount, format);
-            const ext = OUTPUT_EXTENSIONS[format];
-            let fileName = first;
-            // Two inputs with the same base name (a/x.xyz, b/x.xyz): x.xyz, then x_2.xyz.
-            for (let n = 2; usedNames.has(fileName); n++) fileName = `${first.slice(0, -ext.length)}_${n}${ext}`;
-            usedNames.add(fileName);
-            writeFileSync(join(values.out, fileName), text);
-            written.push(fileName);
-          }
-          entry.outputFiles = written;
-        }
-        rows.push({ result, name: result.name });
-      } catch (e) {
-        if (!isEngineError(e)) throw e;
-        const message = formatParseFailure({ file: m.sourceFile, frame: m.frameIndex, line: null, message: e.message });
-        printError(message);
-        status = EXIT_BAD_INPUT;
-        entry = { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, error: message };
-        rows.push({ name: m.name, error: e.message });
+  const { status, outcomes } = eachStructure('snap', items, Boolean(values.json), out, (item) => {
+    const m = item.molecule;
+    const result = snap(m, settings);
+    const entry: Record<string, unknown> = { ...result, inputFile: m.sourceFile, frameIndex: m.frameIndex };
+    if (values.out != null) {
+      // Every format is written and checked before any file is saved: all or nothing.
+      const texts = settings.outputFormats.map((format) => {
+        const text = writeStructure(format, result);
+        verifyWritten(format, text, result);
+        return { format, text };
+      });
+      const written: string[] = [];
+      for (const { format, text } of texts) {
+        const first = outputFileName(m.sourceFile, m.frameIndex, item.frameCount, format);
+        const ext = OUTPUT_EXTENSIONS[format];
+        let fileName = first;
+        // Two inputs with the same base name (a/x.xyz, b/x.xyz): x.xyz, then x_2.xyz.
+        for (let n = 2; usedNames.has(fileName); n++) fileName = `${first.slice(0, -ext.length)}_${n}${ext}`;
+        usedNames.add(fileName);
+        writeFileSync(join(values.out, fileName), text);
+        written.push(fileName);
       }
+      entry.outputFiles = written;
     }
-    if (values.json) out.write(`${k > 0 ? ',' : ''}\n${JSON.stringify(entry)}`);
+    return entry;
   });
-  bar.done();
-
-  if (values.json) {
-    out.write('\n]}\n');
-  } else {
+  if (!values.json) {
+    const rows = outcomes.map(({ entry, failure }) =>
+      failure == null ? { result: entry as unknown as StructureResult, name: String(entry.name) } : { name: String(entry.name), error: failure },
+    );
     out.write(`${snapTable(rows)}\n`);
   }
   out.flush();
