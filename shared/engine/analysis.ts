@@ -26,6 +26,20 @@ export interface Analysis {
   readonly inversionPerm: Int32Array | null;
   readonly inversionResidual: number;
   readonly cache: Map<string, FoundGroup>;
+  /** Closures of generator sets already formed (see {@link closeAt}), by their generators' keys. */
+  readonly closures: Map<string, ClosureOutcome>;
+}
+
+/**
+ * What closing one set of generators showed, valid for every tolerance: the closure succeeds at
+ * t exactly when t ≥ `worst` (its largest element residual), and is known to fail for t below
+ * `failsBelow` (a product with that residual was met) or always (`elements` null, failsBelow ∞).
+ */
+interface ClosureOutcome {
+  elements: SymOp[] | null;
+  name: string | null;
+  worst: number;
+  failsBelow: number;
 }
 
 /** The group perceived at one tolerance. */
@@ -58,7 +72,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map() };
+  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: new Map() };
 }
 
 /**
@@ -99,8 +113,7 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   let notClosed = false;
   for (const op of ops) {
     if (inGroup.has(op.key)) continue;
-    const closed = closeUnder(store, [...gens, op], t);
-    const named = closed ? identifyGroup(closed) : null;
+    const { elements: closed, name: named } = closeAt(a, [...gens, op], t);
     if (closed && named) {
       elements = closed;
       gens.push(op);
@@ -116,3 +129,33 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
     .join(',')}`;
   return { name, order: elements.length, tolerance: t, elements, notClosed, id };
 }
+
+/**
+ * closeUnder(store, gens, t) and its group name, memoised across tolerances: the ladder asks for
+ * the same generator sets at many tolerances. Gives exactly what closeUnder would: the closure
+ * visits products in the same order whatever t is, so a success with largest residual w decides
+ * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
+ */
+function closeAt(a: Analysis, gens: readonly SymOp[], t: number): { elements: SymOp[] | null; name: string | null } {
+  let key = '';
+  for (const g of gens) key += `${g.key},`;
+  const known = a.closures.get(key);
+  if (known) {
+    if (known.elements) return t >= known.worst ? known : FAILED;
+    if (t < known.failsBelow) return FAILED;
+  }
+  const failure = { residual: Infinity };
+  const elements = closeUnder(a.store, gens, t, undefined, failure);
+  let outcome: ClosureOutcome;
+  if (elements) {
+    let worst = 0;
+    for (const e of elements) if (e.residual > worst) worst = e.residual;
+    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst };
+  } else {
+    outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual };
+  }
+  a.closures.set(key, outcome);
+  return outcome.elements ? outcome : FAILED;
+}
+
+const FAILED = { elements: null, name: null };

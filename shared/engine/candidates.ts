@@ -228,7 +228,8 @@ function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number
   const tol = store.tol;
   const count = atoms ? atoms.length : store.mol.n;
   // One sortable number per off-axis atom: element id · 1e7 + height (|height| < 1e6 Å).
-  const keys = new Float64Array(count);
+  if (orderKeys.length < count) orderKeys = new Float64Array(Math.max(count, 2 * orderKeys.length));
+  const keys = orderKeys;
   let m = 0;
   for (let k = 0; k < count; k++) {
     const i = atoms ? atoms[k] : k;
@@ -239,7 +240,7 @@ function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number
     if (x * x + v * v + z * z - h * h > tol * tol) keys[m++] = kinds[i] * 1e7 + h;
   }
   if (m === 0) return [2];
-  const sorted = keys.subarray(0, m).sort();
+  const sorted = sortPrefix(keys, m);
   let g = 0;
   let run = 1;
   for (let k = 1; k <= m; k++) {
@@ -252,6 +253,24 @@ function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number
   const out: number[] = [];
   for (let n = 2; n <= Math.min(g, MAX_AXIS_ORDER); n++) if (g % n === 0) out.push(n);
   return out;
+}
+
+/** Scratch for {@link possibleOrders} (the engine is synchronous, so one buffer suffices). */
+let orderKeys = new Float64Array(256);
+
+/** The first m entries of `a` sorted ascending, in place (insertion sort when short). */
+function sortPrefix(a: Float64Array, m: number): Float64Array {
+  if (m > 48) return a.subarray(0, m).sort();
+  for (let i = 1; i < m; i++) {
+    const v = a[i];
+    let k = i - 1;
+    while (k >= 0 && a[k] > v) {
+      a[k + 1] = a[k];
+      k--;
+    }
+    a[k + 1] = v;
+  }
+  return a;
 }
 
 function gcdInt(a: number, b: number): number {

@@ -18,7 +18,16 @@ export interface NeighbourGrid {
   readonly mask: number;
   /** Atom indices ordered by cell. */
   readonly atoms: Int32Array;
+  /**
+   * Small structures (≤ {@link SMALL_STRUCTURE} atoms): the atoms of each element in index order,
+   * scanned directly — fewer steps than visiting cells when each element has a few dozen atoms.
+   * The hash is then left empty.
+   */
+  readonly byKind: readonly Int32Array[] | null;
 }
+
+/** Structures up to this many atoms are searched by element lists instead of cells. */
+export const SMALL_STRUCTURE = 96;
 
 const EMPTY = -1;
 
@@ -32,6 +41,7 @@ function hash(ix: number, iy: number, iz: number, mask: number): number {
  */
 export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell: number): NeighbourGrid {
   const n = kinds.length;
+  if (n <= SMALL_STRUCTURE) return smallGrid(coords, kinds, cell);
   let size = 16;
   while (size < 2 * n) size *= 2;
   const mask = size - 1;
@@ -67,7 +77,20 @@ export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell
   }
   const atoms = new Int32Array(n);
   for (let i = 0; i < n; i++) atoms[slotEnd[slotOf[i]]++] = i;
-  return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms };
+  return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms, byKind: null };
+}
+
+function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): NeighbourGrid {
+  const n = kinds.length;
+  let kindCount = 0;
+  for (let i = 0; i < n; i++) if (kinds[i] + 1 > kindCount) kindCount = kinds[i] + 1;
+  const counts = new Int32Array(kindCount);
+  for (let i = 0; i < n; i++) counts[kinds[i]]++;
+  const byKind = Array.from(counts, (c) => new Int32Array(c));
+  counts.fill(0);
+  for (let i = 0; i < n; i++) byKind[kinds[i]][counts[kinds[i]]++] = i;
+  const none = new Int32Array(0);
+  return { cell, coords, kinds, slotX: none, slotY: none, slotZ: none, slotStart: none, slotEnd: none, mask: 0, atoms: none, byKind };
 }
 
 /**
@@ -83,6 +106,7 @@ export function nearestOfKind(
   radius: number,
   out?: Float64Array,
 ): number {
+  if (g.byKind) return nearestInList(g, x, y, z, kind, radius, out);
   const inv = 1 / g.cell;
   const x0 = Math.floor((x - radius) * inv);
   const x1 = Math.floor((x + radius) * inv);
@@ -119,6 +143,28 @@ export function nearestOfKind(
   return best;
 }
 
+function nearestInList(g: NeighbourGrid, x: number, y: number, z: number, kind: number, radius: number, out?: Float64Array): number {
+  const list = kind < g.byKind!.length ? g.byKind![kind] : null;
+  if (!list) return -1;
+  const c = g.coords;
+  let best = -1;
+  let bestD2 = radius * radius;
+  // Index order, so on a tie the lower index is kept (as in the cell scan).
+  for (let k = 0; k < list.length; k++) {
+    const j = list[k];
+    const ex = c[3 * j] - x;
+    const ey = c[3 * j + 1] - y;
+    const ez = c[3 * j + 2] - z;
+    const d2 = ex * ex + ey * ey + ez * ez;
+    if (d2 < bestD2 || (d2 === bestD2 && best < 0)) {
+      best = j;
+      bestD2 = d2;
+    }
+  }
+  if (out && best >= 0) out[0] = bestD2;
+  return best;
+}
+
 /**
  * Calls `visit(i, j, d)` for every pair of atoms (any elements) closer than `radius` ≤ cell, each
  * pair once (i < j). Stops early and returns false if `visit` returns false.
@@ -129,8 +175,21 @@ export function forEachClosePair(
   visit: (i: number, j: number, d: number) => boolean,
 ): boolean {
   const { coords, atoms, slotStart, slotEnd, slotX, slotY, slotZ, mask } = g;
-  const n = atoms.length;
   const r2 = radius * radius;
+  if (g.byKind) {
+    const m = g.kinds.length;
+    for (let i = 0; i < m; i++) {
+      for (let j = i + 1; j < m; j++) {
+        const ex = coords[3 * j] - coords[3 * i];
+        const ey = coords[3 * j + 1] - coords[3 * i + 1];
+        const ez = coords[3 * j + 2] - coords[3 * i + 2];
+        const d2 = ex * ex + ey * ey + ez * ez;
+        if (d2 < r2 && !visit(i, j, Math.sqrt(d2))) return false;
+      }
+    }
+    return true;
+  }
+  const n = atoms.length;
   const inv = 1 / g.cell;
   for (let i = 0; i < n; i++) {
     const x = coords[3 * i];

@@ -86,21 +86,18 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
     byKey: new Map(),
     identity: undefined as unknown as SymOp,
   };
-  const identity: SymOp = {
-    key: keyOf(store, perm, 1),
-    perm,
-    matrix: identity3(),
-    residual: 0,
-    det: 1,
-    kind: 'identity',
-    order: 1,
-    j: 0,
-    axis: [0, 0, 0],
-    sig: '+0/1',
-  };
+  const identity = makeOp(keyOf(store, perm, 1), perm, identity3(), 0, { det: 1, kind: 'identity', order: 1, j: 0, axis: [0, 0, 0] });
   (store as { identity: SymOp }).identity = identity;
   store.byKey.set(identity.key, identity);
   return store;
+}
+
+/**
+ * A SymOp with its fields always in the same order (one object shape for every operation keeps
+ * the engine's hot loops monomorphic; object spread here was a measured hotspot).
+ */
+function makeOp(key: number, perm: Int32Array, matrix: Mat3, residual: number, type: OpType, sig = typeSignature(type)): SymOp {
+  return { det: type.det, kind: type.kind, order: type.order, j: type.j, axis: type.axis, key, perm, matrix, residual, sig };
 }
 
 /** Key of an operation from its permutation and determinant. */
@@ -129,7 +126,7 @@ export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): 
     if (!fit) return null;
     const r = residualWithPermutation(y, fit.matrix, p);
     if (r < stable) {
-      return { ...fit.type, key: keyOf(store, p, det), perm: p, matrix: fit.matrix, residual: r, sig: typeSignature(fit.type) };
+      return makeOp(keyOf(store, p, det), p, fit.matrix, r, fit.type);
     }
     const next = new Int32Array(p.length);
     const residual = matchOperation(store.ctx, fit.matrix, store.tol, next);
@@ -142,7 +139,7 @@ export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): 
       }
     }
     if (same) {
-      return { ...fit.type, key: keyOf(store, p, det), perm: p, matrix: fit.matrix, residual, sig: typeSignature(fit.type) };
+      return makeOp(keyOf(store, p, det), p, fit.matrix, residual, fit.type);
     }
     p = next;
   }
@@ -159,7 +156,7 @@ export function exactOperation(store: OpStore, matrix: Mat3, perm: Int32Array, d
   const reg = order > 0 && order <= 256 ? regularize(matrix, det, order) : null;
   if (!reg) return null;
   const residual = residualWithPermutation(store.mol.y, reg.matrix, perm);
-  return { ...reg.type, key: keyOf(store, perm, det), perm, matrix: reg.matrix, residual, sig: typeSignature(reg.type) };
+  return makeOp(keyOf(store, perm, det), perm, reg.matrix, residual, reg.type);
 }
 
 /** Adds a refined operation unless one with the same key is already known; returns the stored one. */
@@ -189,26 +186,8 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   if (det === -1 && order % 2 === 1) order *= 2;
   const fit = order > 0 && order <= 256 ? regularize(mul3(g.matrix, h.matrix), det, order) : null;
   const op: SymOp = fit
-    ? {
-        ...fit.type,
-        key,
-        perm,
-        matrix: fit.matrix,
-        residual: residualWithPermutation(store.mol.y, fit.matrix, perm),
-        sig: typeSignature(fit.type),
-      }
-    : {
-        key,
-        perm,
-        matrix: mul3(g.matrix, h.matrix),
-        residual: Infinity,
-        det,
-        kind: det > 0 ? 'rotation' : 'improper',
-        order: 0,
-        j: 0,
-        axis: [0, 0, 0],
-        sig: '?',
-      };
+    ? makeOp(key, perm, fit.matrix, residualWithPermutation(store.mol.y, fit.matrix, perm), fit.type)
+    : makeOp(key, perm, mul3(g.matrix, h.matrix), Infinity, { det, kind: det > 0 ? 'rotation' : 'improper', order: 0, j: 0, axis: [0, 0, 0] }, '?');
   store.byKey.set(key, op);
   return op;
 }
@@ -216,9 +195,16 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
 /**
  * The closure of `generators` under composition, as long as every element has residual ≤ `tol`
  * and the group stays within `maxOrder` elements. Returns the elements (identity first) or
- * null when some product exceeds the tolerance (the operations do not close at `tol`).
+ * null when some product exceeds the tolerance (the operations do not close at `tol`); then
+ * `failure.residual` is that product's residual (Infinity when the order limit was passed).
  */
-export function closeUnder(store: OpStore, generators: readonly SymOp[], tol: number, maxOrder = 256): SymOp[] | null {
+export function closeUnder(
+  store: OpStore,
+  generators: readonly SymOp[],
+  tol: number,
+  maxOrder = 256,
+  failure?: { residual: number },
+): SymOp[] | null {
   const elements: SymOp[] = [store.identity];
   const seen = new Set<number>([store.identity.key]);
   for (let k = 0; k < elements.length; k++) {
@@ -226,10 +212,16 @@ export function closeUnder(store: OpStore, generators: readonly SymOp[], tol: nu
     for (const g of generators) {
       const p = product(store, e, g);
       if (seen.has(p.key)) continue;
-      if (!(p.residual <= tol)) return null;
+      if (!(p.residual <= tol)) {
+        if (failure) failure.residual = p.residual;
+        return null;
+      }
       seen.add(p.key);
       elements.push(p);
-      if (elements.length > maxOrder) return null;
+      if (elements.length > maxOrder) {
+        if (failure) failure.residual = Infinity;
+        return null;
+      }
     }
   }
   return elements;

@@ -44,13 +44,21 @@ export function ladderJson(a: Analysis, fits: Map<string, FrameFit>): LadderRung
 
 const DEFAULT_SETTINGS = snapSettingsSchema.parse({});
 
+/** Settings validated recently, by their JSON text: a batch passes the same settings every time. */
+const parsedSettings = new Map<string, SnapSettings>();
+
 function parseSettings(settings: Partial<SnapSettings> | undefined): SnapSettings {
   if (!settings || Object.keys(settings).length === 0) return DEFAULT_SETTINGS;
+  const text = JSON.stringify(settings);
+  const known = parsedSettings.get(text);
+  if (known) return known;
   const parsed = snapSettingsSchema.safeParse(settings);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
     throw new EngineError('bad-settings', `settings.${issue.path.join('.')}: ${issue.message}`);
   }
+  if (parsedSettings.size >= 32) parsedSettings.clear();
+  parsedSettings.set(text, parsed.data);
   return parsed.data;
 }
 
