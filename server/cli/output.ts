@@ -52,28 +52,39 @@ export function hillFormula(elements: readonly string[]): string {
 /**
  * Buffered writes to a file descriptor (stdout by default). Writes are synchronous so that
  * output is complete before the process exits, and batched so that 10⁴ small writes cost little.
+ * Each text is encoded straight into one reused byte buffer: joining tens of megabytes of JSON
+ * into a single string first (with a few non-ASCII symbols such as σ and ∞ it becomes a
+ * two-byte string) cost more than producing the JSON.
  */
 export class BufferedOut {
-  private parts: string[] = [];
-  private size = 0;
+  private buf = Buffer.allocUnsafe(1 << 20);
+  private used = 0;
 
   constructor(private readonly fd = 1) {}
 
   write(text: string): void {
-    this.parts.push(text);
-    this.size += text.length;
-    if (this.size > 1 << 20) this.flush();
+    // UTF-8 needs at most 3 bytes per UTF-16 code unit.
+    if (this.used + 3 * text.length > this.buf.length) {
+      this.flush();
+      if (3 * text.length > this.buf.length) {
+        this.writeAll(Buffer.from(text, 'utf8'));
+        return;
+      }
+    }
+    this.used += this.buf.write(text, this.used, 'utf8');
   }
 
   flush(): void {
-    if (this.parts.length === 0) return;
-    const buf = Buffer.from(this.parts.join(''), 'utf8');
-    this.parts = [];
-    this.size = 0;
+    if (this.used === 0) return;
+    this.writeAll(this.buf.subarray(0, this.used));
+    this.used = 0;
+  }
+
+  private writeAll(bytes: Buffer): void {
     let off = 0;
-    while (off < buf.length) {
+    while (off < bytes.length) {
       try {
-        off += writeSync(this.fd, buf, off);
+        off += writeSync(this.fd, bytes, off);
       } catch (e) {
         // A non-blocking pipe that is full: wait for the reader and retry.
         if ((e as NodeJS.ErrnoException).code !== 'EAGAIN') throw e;

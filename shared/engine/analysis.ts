@@ -5,6 +5,7 @@ import type { Vec3 } from './mat3';
 import type { PreparedMolecule } from './molecule';
 import { matchOperation } from './operations';
 import { closeUnder, createOpStore, type OpStore, type SymOp } from './op-store';
+import { i32 } from './arena';
 
 /** Tolerance (Å) at which candidate operations are searched: the top of the ladder. */
 export const CANDIDATE_TOLERANCE = 0.3;
@@ -68,7 +69,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const lineResidual = mol.n <= 2 ? 0 : 2 * line.maxDistance;
   // The inversion is matched directly (not taken from the candidates): near a line, a fitted
   // improper operation with the inversion's pairing may come out as the mirror ⊥ the line.
-  const inv = new Int32Array(mol.n);
+  const inv = i32(mol.n);
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);

@@ -12,6 +12,7 @@ import {
 } from './mat3';
 import { matchOperation, probeOperation } from './operations';
 import { addOperation, closeUnder, exactOperation, refineOperation, type OpStore } from './op-store';
+import { f64, i32, copyI32 } from './arena';
 
 /**
  * Candidate symmetry operations of a structure, found once at a loose tolerance (the store's
@@ -42,8 +43,8 @@ export function generateCandidates(store: OpStore): void {
   const probe = probeAtoms(store);
   const exact = EXACT_RESIDUAL * Math.max(1, mol.radius);
   const tested = new Set<number>();
-  const perm = new Int32Array(n);
-  const images = new Int32Array(probe.length);
+  const perm = i32(n);
+  const images = i32(probe.length);
 
   const tryMatrix = (m: Mat3, det: 1 | -1): boolean => {
     if (!probeOperation(store.ctx, m, tol, probe, images)) return false;
@@ -54,7 +55,7 @@ export function generateCandidates(store: OpStore): void {
     if (!Number.isFinite(residual)) return false;
     // Exactly symmetric input (re-snaps, written files read back): the candidate built from
     // exact directions is already the best fit; only its type needs recording.
-    const op = residual <= exact ? exactOperation(store, m, perm.slice(), det) : refineOperation(store, perm.slice(), det);
+    const op = residual <= exact ? exactOperation(store, m, copyI32(perm), det) : refineOperation(store, copyI32(perm), det);
     if (!op) return false;
     addOperation(store, op);
     return true;
@@ -175,7 +176,7 @@ function atomVector(y: Float64Array, i: number): Vec3 {
  */
 function buildShells(store: OpStore): number[][] {
   const { y, n, kinds } = store.mol;
-  const r = new Float64Array(n);
+  const r = f64(n);
   for (let i = 0; i < n; i++) r[i] = Math.hypot(y[3 * i], y[3 * i + 1], y[3 * i + 2]);
   const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => kinds[a] - kinds[b] || r[a] - r[b] || a - b);
   const shells: number[][] = [];

@@ -4,6 +4,7 @@ import type { FrameFit } from './fit-frame';
 import { labelElements, type ElementLabel } from './labels';
 import { apply3, canonicalDirection, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
 import { standardOrientation } from './orient';
+import { i32 } from './arena';
 
 /** A fitted group put in its standard frame: what every report is built from. */
 export interface OrientedFit {
@@ -16,7 +17,7 @@ export interface OrientedFit {
 /** Fits a found group and orients it (see fit-frame.ts and orient.ts). */
 export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
   // Orbits under the proper rotations only: atoms related by a rotation give the same frame.
-  const orbitOf = new Int32Array(a.mol.n);
+  const orbitOf = i32(a.mol.n);
   const properPerms = fit.perms.filter((_, k) => fit.ideal.elements[k].det > 0);
   equivalenceClasses(a.mol.n, properPerms).forEach((c, k) => c.forEach((i) => (orbitOf[i] = k)));
   const rotations = fit.ideal.elements.filter((e) => e.det > 0).map((e) => e.matrix);
@@ -27,7 +28,8 @@ export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
 
 /** Orbits of atoms under the fitted group's permutations, each sorted, ordered by first atom. */
 export function equivalenceClasses(n: number, perms: readonly Int32Array[]): number[][] {
-  const parent = Int32Array.from({ length: n }, (_, i) => i);
+  const parent = i32(n);
+  for (let i = 0; i < n; i++) parent[i] = i;
   const find = (i: number): number => {
     while (parent[i] !== i) {
       parent[i] = parent[parent[i]];

@@ -6,6 +6,7 @@ import { basisWithZ, dot3, frobeniusDistance3, identity3, mul3, transpose3, type
 import { productKey, type SymOp } from './op-store';
 import { residualWithPermutation, type OpKind } from './operations';
 import { projectOntoGroup } from './project';
+import { f64, copyF64 } from './arena';
 
 /**
  * A group fitted to a structure: the canonical frame located in the input (y ≈ Q·z), each
@@ -174,7 +175,7 @@ function sqDist(a: Float64Array, b: Float64Array): number {
 /** Coordinates in the frame whose axes are the columns of Q: z = Qᵀy. */
 export function toFrame(y: ArrayLike<number>, Q: Mat3): Float64Array {
   const n = y.length / 3;
-  const z = new Float64Array(3 * n);
+  const z = f64(3 * n);
   for (let i = 0; i < n; i++) {
     const a = y[3 * i];
     const b = y[3 * i + 1];
@@ -278,8 +279,8 @@ function fitAtom(a: Analysis): FrameFit {
     perms: [a.store.identity.perm],
     residuals: [0],
     images: [],
-    W: new Float64Array(3),
-    Z: new Float64Array(a.mol.y),
+    W: f64(3),
+    Z: copyF64(a.mol.y),
   };
 }
 
@@ -288,7 +289,7 @@ function fitLinear(a: Analysis, name: 'C∞v' | 'D∞h'): FrameFit {
   const u = a.lineDirection;
   const Q = basisWithZ(u);
   const Z = toFrame(y, Q);
-  const W = new Float64Array(3 * n);
+  const W = f64(3 * n);
   const inv = a.inversionPerm;
   const centro = name === 'D∞h' && inv;
   for (let i = 0; i < n; i++) {

@@ -1,4 +1,5 @@
 import type { Mat3 } from './mat3';
+import { f64 } from './arena';
 import { topEigenvector } from './symmetric-eigen';
 
 /**
@@ -91,8 +92,8 @@ export function superpose(
       cq[k] += q[3 * i + k] / n;
     }
   }
-  const pc = new Float64Array(3 * n);
-  const qc = new Float64Array(3 * n);
+  const pc = f64(3 * n);
+  const qc = f64(3 * n);
   for (let i = 0; i < 3 * n; i++) {
     pc[i] = p[i] - cp[i % 3];
     qc[i] = q[i] - cq[i % 3];

@@ -2,6 +2,7 @@ import type { AtomJson } from '../contracts/structure';
 import { atomicNumber, atomicWeight, normalizeElement } from '../elements';
 import { EngineError } from './errors';
 import { buildNeighbourGrid, forEachClosePair } from './neighbour-grid';
+import { f64, i32 } from './arena';
 
 /** Largest structure the engine accepts (atoms). Above it, EngineError 'too-many-atoms'. */
 export const MAX_ATOMS = 200_000;
@@ -48,14 +49,14 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
     throw new EngineError('too-many-atoms', `the structure has ${n} atoms; the engine accepts at most ${MAX_ATOMS}`);
   }
   const symbols: string[] = new Array(n);
-  const kinds = new Int32Array(n);
-  const masses = new Float64Array(n);
-  const numbers = new Int32Array(n);
+  const kinds = i32(n);
+  const masses = f64(n);
+  const numbers = i32(n);
   const kindIndex = new Map<string, number>();
   const kindSymbols: string[] = [];
   const kindMass: number[] = [];
   const kindNumber: number[] = [];
-  const x = new Float64Array(3 * n);
+  const x = f64(3 * n);
   const known = new Map<string, string | null>();
   for (let i = 0; i < n; i++) {
     const a = atoms[i];
@@ -101,7 +102,7 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
     for (let d = 0; d < 3; d++) centre[d] += masses[i] * x[3 * i + d];
   }
   for (let d = 0; d < 3; d++) centre[d] /= mt;
-  const y = new Float64Array(3 * n);
+  const y = f64(3 * n);
   let radius = 0;
   for (let i = 0; i < n; i++) {
     for (let d = 0; d < 3; d++) y[3 * i + d] = x[3 * i + d] - centre[d];

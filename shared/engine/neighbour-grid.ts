@@ -1,3 +1,4 @@
+import { i32 } from './arena';
 /**
  * A uniform spatial hash for "nearest atom of the same element within r" queries: O(1) per query
  * for molecular densities, so testing one symmetry operation on N atoms costs O(N), never O(N²).
@@ -45,13 +46,13 @@ export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell
   let size = 16;
   while (size < 2 * n) size *= 2;
   const mask = size - 1;
-  const slotX = new Int32Array(size);
-  const slotY = new Int32Array(size);
-  const slotZ = new Int32Array(size);
-  const slotCount = new Int32Array(size);
-  const slotStart = new Int32Array(size).fill(EMPTY);
-  const slotEnd = new Int32Array(size);
-  const slotOf = new Int32Array(n);
+  const slotX = i32(size);
+  const slotY = i32(size);
+  const slotZ = i32(size);
+  const slotCount = i32(size);
+  const slotStart = i32(size).fill(EMPTY);
+  const slotEnd = i32(size);
+  const slotOf = i32(n);
   const inv = 1 / cell;
   for (let i = 0; i < n; i++) {
     const ix = Math.floor(coords[3 * i] * inv);
@@ -75,7 +76,7 @@ export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell
     slotEnd[h] = offset;
     offset += slotCount[h];
   }
-  const atoms = new Int32Array(n);
+  const atoms = i32(n);
   for (let i = 0; i < n; i++) atoms[slotEnd[slotOf[i]]++] = i;
   return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms, byKind: null };
 }
@@ -84,9 +85,9 @@ function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): Neigh
   const n = kinds.length;
   let kindCount = 0;
   for (let i = 0; i < n; i++) if (kinds[i] + 1 > kindCount) kindCount = kinds[i] + 1;
-  const counts = new Int32Array(kindCount);
+  const counts = i32(kindCount);
   for (let i = 0; i < n; i++) counts[kinds[i]]++;
-  const byKind = Array.from(counts, (c) => new Int32Array(c));
+  const byKind = Array.from(counts, (c) => i32(c));
   counts.fill(0);
   for (let i = 0; i < n; i++) byKind[kinds[i]][counts[kinds[i]]++] = i;
   const none = new Int32Array(0);

@@ -11,6 +11,7 @@ import {
   type OpType,
 } from './operations';
 import { identity3, mul3, type Mat3 } from './mat3';
+import { i32, u8 } from './arena';
 
 /**
  * One symmetry operation found in a structure: an exact point-group element (matrix in the
@@ -75,11 +76,11 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
     }
   }
   const grid = buildNeighbourGrid(y, mol.kinds, 2 * tol);
-  const perm = new Int32Array(n);
+  const perm = i32(n);
   for (let i = 0; i < n; i++) perm[i] = i;
   const store: OpStore = {
     mol,
-    ctx: { y, kinds: mol.kinds, grid, used: new Uint8Array(n) },
+    ctx: { y, kinds: mol.kinds, grid, used: u8(n) },
     tol,
     a1,
     a2,
@@ -128,7 +129,7 @@ export function refineOperation(store: OpStore, perm: Int32Array, det: 1 | -1): 
     if (r < stable) {
       return makeOp(keyOf(store, p, det), p, fit.matrix, r, fit.type);
     }
-    const next = new Int32Array(p.length);
+    const next = i32(p.length);
     const residual = matchOperation(store.ctx, fit.matrix, store.tol, next);
     if (!Number.isFinite(residual)) return null;
     let same = true;
@@ -178,7 +179,7 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const known = store.byKey.get(key);
   if (known) return known;
   const n = store.mol.n;
-  const perm = new Int32Array(n);
+  const perm = i32(n);
   for (let i = 0; i < n; i++) perm[i] = g.perm[h.perm[i]];
   const det = (g.det * h.det) as 1 | -1;
   // The product of two fitted elements is already close to the best fit: snap its angle only.

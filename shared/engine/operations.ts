@@ -11,6 +11,7 @@ import {
   type Vec3,
 } from './mat3';
 import { nearestOfKind, type NeighbourGrid } from './neighbour-grid';
+import { u8 } from './arena';
 
 /** What a point-group element does geometrically. */
 export type OpKind = 'identity' | 'rotation' | 'reflection' | 'inversion' | 'improper';
@@ -49,7 +50,7 @@ export function lcm(a: number, b: number): number {
 /** Order of a permutation (lcm of its cycle lengths); 0 if it exceeds `cap`. */
 export function permutationOrder(perm: Int32Array, cap = 1 << 20): number {
   const n = perm.length;
-  const seen = new Uint8Array(n);
+  const seen = u8(n);
   let order = 1;
   for (let i = 0; i < n; i++) {
     if (seen[i]) continue;

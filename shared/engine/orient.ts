@@ -1,4 +1,5 @@
 import { covalentRadius } from '../elements';
+import { f64 } from './arena';
 import { groupFamily } from './groups';
 import { principalAxes } from './inertia';
 import { identity3, mul3, rotation3, type Mat3 } from './mat3';
@@ -298,7 +299,7 @@ function pickByKey(pool: Mat3[], W: Float64Array, mol: PreparedMolecule): Mat3[]
 /** (z, x, y) of the atoms after rotation S, sorted descending (values within EPS equal), flattened. */
 function sortedTriples(S: Mat3, atoms: readonly number[], W: Float64Array): Float64Array {
   const k = atoms.length;
-  const t = new Float64Array(3 * k);
+  const t = f64(3 * k);
   for (let a = 0; a < k; a++) {
     const i = atoms[a];
     const p = W[3 * i];
@@ -315,7 +316,7 @@ function sortedTriples(S: Mat3, atoms: readonly number[], W: Float64Array): Floa
     }
     return 0;
   });
-  const out = new Float64Array(3 * k);
+  const out = f64(3 * k);
   idx.forEach((a, pos) => {
     out[3 * pos] = t[3 * a];
     out[3 * pos + 1] = t[3 * a + 1];

@@ -1,4 +1,5 @@
 import type { Mat3 } from './mat3';
+import { f64 } from './arena';
 
 /**
  * The group average (Reynolds projector) of a configuration: x̄ᵢ = (1/|G|) Σ_g D(g)ᵀ x_{π_g(i)},
@@ -14,7 +15,7 @@ export function projectOntoGroup(
   perms: readonly Int32Array[],
 ): Float64Array {
   const n = z.length / 3;
-  const out = new Float64Array(3 * n);
+  const out = f64(3 * n);
   const g = matrices.length;
   for (let k = 0; k < g; k++) {
     const m = matrices[k];

@@ -1,4 +1,5 @@
 import type { LadderRungJson, StructureResult } from '../contracts/structure';
+import { f64 } from './arena';
 import { snapSettingsSchema, type SnapSettings } from '../contracts/settings';
 import type { MoleculeInput } from '../formats/types';
 import { analyse, groupAt, type Analysis } from './analysis';
@@ -10,7 +11,7 @@ import type { FrameFit } from './fit-frame';
 import { hillFormula } from './formula';
 import { groupOrder } from './groups';
 import { superpose } from './kabsch';
-import { ladderRanges } from './ladder';
+import { ladderRanges, type LadderRange } from './ladder';
 import { apply3, identity3, mul3, transpose3, type Mat3 } from './mat3';
 import { prepareMolecule } from './molecule';
 import { symmetryRmsd } from './project';
@@ -27,8 +28,8 @@ export function snapCost(a: Analysis, fit: FrameFit): { rmsd: number; max: numbe
 }
 
 /** Ladder JSON with snap costs (memoised per distinct group). */
-export function ladderJson(a: Analysis, fits: Map<string, FrameFit>): LadderRungJson[] {
-  return ladderRanges(a).map((r) => {
+export function ladderJson(a: Analysis, fits: Map<string, FrameFit>, ranges: readonly LadderRange[] = ladderRanges(a)): LadderRungJson[] {
+  return ranges.map((r) => {
     const fit = fitFor(a, r.found, fits);
     const cost = snapCost(a, fit);
     return {
@@ -83,7 +84,7 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   const fits = new Map<string, FrameFit>();
   const perceivedFit = orientFit(a, fitFor(a, perceived, fits));
   const ranges = ladderRanges(a);
-  const ladder = ladderJson(a, fits);
+  const ladder = ladderJson(a, fits, ranges);
   const target = chooseTarget(a, perceived, perceivedFit, ranges, s.target, fits);
   const chosen = target.fit === perceivedFit.fit ? perceivedFit : orientFit(a, target.fit);
   const { fit, S } = chosen;
@@ -95,7 +96,7 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   const R: Mat3 = standard ? mul3(S, transpose3(fit.Q)) : identity3();
   const toOut: Mat3 = standard ? identity3() : mul3(fit.Q, transpose3(S));
   const frameRot: Mat3 = standard ? S : fit.Q; // canonical → output
-  const out = new Float64Array(3 * n);
+  const out = f64(3 * n);
   for (let i = 0; i < n; i++) {
     const w = [fit.W[3 * i], fit.W[3 * i + 1], fit.W[3 * i + 2]];
     const v = apply3(frameRot, w);
@@ -114,7 +115,7 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   const symmetryRmsdBefore = symmetryRmsd(mol.y, inputMats, fit.perms);
   if (!standard) for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) centredOut[3 * i + d] = out[3 * i + d] - mol.centre[d];
   const symmetryRmsdAfter = symmetryRmsd(standard ? out : centredOut, outMats, fit.perms);
-  const inputRaw = new Float64Array(3 * n);
+  const inputRaw = f64(3 * n);
   for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) inputRaw[3 * i + d] = mol.y[3 * i + d] + mol.centre[d];
   const sup = superpose(inputRaw, out);
   const maxDisplacement = Math.max(0, ...sup.distances);
