@@ -29,6 +29,8 @@ export interface Analysis {
   readonly cache: Map<string, FoundGroup>;
   /** Closures of generator sets already formed (see {@link closeAt}), by their generators' keys. */
   readonly closures: Map<string, ClosureOutcome>;
+  /** The store's operations by residual (see sortedOperations). */
+  sorted: SymOp[];
 }
 
 /**
@@ -41,6 +43,10 @@ interface ClosureOutcome {
   name: string | null;
   worst: number;
   failsBelow: number;
+  /** Keys of the elements. */
+  keys: Set<number> | null;
+  /** FoundGroup.id, once asked for. */
+  id: string | null;
 }
 
 /** The group perceived at one tolerance. */
@@ -73,7 +79,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: new Map() };
+  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: new Map(), sorted: [] };
 }
 
 /**
@@ -87,8 +93,15 @@ export function groupAt(a: Analysis, t: number): FoundGroup {
   // The result depends on t only through the set of stored operations with residual ≤ t (a
   // prefix of them by residual, so its size identifies it) and the two linear tests; while the
   // store does not grow, equal keys give equal groups.
-  let count = 0;
-  for (const op of a.store.byKey.values()) if (op.residual <= t) count++;
+  const ops = sortedOperations(a);
+  let lo = 0;
+  let hi = ops.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (ops[mid].residual <= t) lo = mid + 1;
+    else hi = mid;
+  }
+  const count = lo;
   const key = `${count}:${a.store.byKey.size}:${a.lineResidual <= t}:${a.inversionResidual <= t}`;
   const hit = a.cache.get(key);
   if (hit) return hit;
@@ -104,31 +117,35 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
     const name = a.inversionResidual <= t ? 'D∞h' : 'C∞v';
     return { name, order: 0, tolerance: t, elements: [], notClosed: false, id: name };
   }
-  const ops = [...store.byKey.values()]
-    .filter((op) => op.residual <= t && op.key !== store.identity.key)
-    .sort((p, q) => p.residual - q.residual || p.key - q.key);
-  let elements: SymOp[] = [store.identity];
+  const ops = sortedOperations(a);
+  let group: ClosureOutcome | null = null;
   const gens: SymOp[] = [];
-  let inGroup = new Set<number>([store.identity.key]);
-  let name = 'C1';
   let notClosed = false;
   for (const op of ops) {
-    if (inGroup.has(op.key)) continue;
-    const { elements: closed, name: named } = closeAt(a, [...gens, op], t);
-    if (closed && named) {
-      elements = closed;
-      gens.push(op);
-      inGroup = new Set(closed.map((e) => e.key));
-      name = named;
-    } else {
+    if (!(op.residual <= t)) break;
+    if (op === store.identity || (group && group.keys!.has(op.key))) continue;
+    gens.push(op);
+    const closed = closeAt(a, gens, t);
+    if (closed) group = closed;
+    else {
+      gens.pop();
       notClosed = true;
     }
   }
-  const id = `${name}:${elements
-    .map((e) => e.key)
+  if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
+  group.id ??= `${group.name}:${group.elements!.map((e) => e.key)
     .sort((p, q) => p - q)
     .join(',')}`;
-  return { name, order: elements.length, tolerance: t, elements, notClosed, id };
+  return { name: group.name!, order: group.elements!.length, tolerance: t, elements: group.elements!, notClosed, id: group.id };
+}
+
+/** The stored operations sorted by residual (then key), re-sorted only when the store has grown. */
+function sortedOperations(a: Analysis): readonly SymOp[] {
+  const byKey = a.store.byKey;
+  if (a.sorted.length !== byKey.size) {
+    a.sorted = [...byKey.values()].sort((p, q) => p.residual - q.residual || p.key - q.key);
+  }
+  return a.sorted;
 }
 
 /**
@@ -137,13 +154,13 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
  * visits products in the same order whatever t is, so a success with largest residual w decides
  * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
  */
-function closeAt(a: Analysis, gens: readonly SymOp[], t: number): { elements: SymOp[] | null; name: string | null } {
+function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome | null {
   let key = '';
   for (const g of gens) key += `${g.key},`;
   const known = a.closures.get(key);
   if (known) {
-    if (known.elements) return t >= known.worst ? known : FAILED;
-    if (t < known.failsBelow) return FAILED;
+    if (known.elements) return known.name && t >= known.worst ? known : null;
+    if (t < known.failsBelow) return null;
   }
   const failure = { residual: Infinity };
   const elements = closeUnder(a.store, gens, t, undefined, failure);
@@ -151,12 +168,10 @@ function closeAt(a: Analysis, gens: readonly SymOp[], t: number): { elements: Sy
   if (elements) {
     let worst = 0;
     for (const e of elements) if (e.residual > worst) worst = e.residual;
-    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst };
+    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst, keys: new Set(elements.map((e) => e.key)), id: null };
   } else {
-    outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual };
+    outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, id: null };
   }
   a.closures.set(key, outcome);
-  return outcome.elements ? outcome : FAILED;
+  return outcome.elements && outcome.name ? outcome : null;
 }
-
-const FAILED = { elements: null, name: null };
