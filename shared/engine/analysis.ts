@@ -28,9 +28,15 @@ export interface Analysis {
   readonly inversionResidual: number;
   readonly cache: Map<string, FoundGroup>;
   /** Closures of generator sets already formed (see {@link closeAt}), by their generators' keys. */
-  readonly closures: Map<string, ClosureOutcome>;
+  readonly closures: ClosureNode;
   /** The store's operations by residual (see sortedOperations). */
   sorted: SymOp[];
+}
+
+/** Node of the trie of generator lists closed so far. */
+interface ClosureNode {
+  outcome: ClosureOutcome | null;
+  readonly children: Map<number, ClosureNode>;
 }
 
 /**
@@ -79,7 +85,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: new Map(), sorted: [] };
+  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: { outcome: null, children: new Map() }, sorted: [] };
 }
 
 /**
@@ -155,9 +161,17 @@ function sortedOperations(a: Analysis): readonly SymOp[] {
  * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
  */
 function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome | null {
-  let key = '';
-  for (const g of gens) key += `${g.key},`;
-  const known = a.closures.get(key);
+  // Look the generator list up in a trie keyed by operation keys (no string building).
+  let node = a.closures;
+  for (const g of gens) {
+    let child = node.children.get(g.key);
+    if (!child) {
+      child = { outcome: null, children: new Map() };
+      node.children.set(g.key, child);
+    }
+    node = child;
+  }
+  const known = node.outcome;
   if (known) {
     if (known.elements) return known.name && t >= known.worst ? known : null;
     if (t < known.failsBelow) return null;
@@ -172,6 +186,6 @@ function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome
   } else {
     outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, id: null };
   }
-  a.closures.set(key, outcome);
+  node.outcome = outcome;
   return outcome.elements && outcome.name ? outcome : null;
 }

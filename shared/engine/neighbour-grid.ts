@@ -1,4 +1,4 @@
-import { i32 } from './arena';
+import { f64, i32 } from './arena';
 /**
  * A uniform spatial hash for "nearest atom of the same element within r" queries: O(1) per query
  * for molecular densities, so testing one symmetry operation on N atoms costs O(N), never O(N²).
@@ -20,11 +20,12 @@ export interface NeighbourGrid {
   /** Atom indices ordered by cell. */
   readonly atoms: Int32Array;
   /**
-   * Small structures (≤ {@link SMALL_STRUCTURE} atoms): the atoms of each element in index order,
-   * scanned directly — fewer steps than visiting cells when each element has a few dozen atoms.
-   * The hash is then left empty.
+   * Small structures (≤ {@link SMALL_STRUCTURE} atoms): the atoms of each element sorted by x, and
+   * their x coordinates; a query scans only the atoms whose x is within the radius (found by
+   * binary search) — fewer steps than visiting cells. The hash is then left empty.
    */
   readonly byKind: readonly Int32Array[] | null;
+  readonly xByKind: readonly Float64Array[] | null;
 }
 
 /** Structures up to this many atoms are searched by element lists instead of cells. */
@@ -78,20 +79,30 @@ export function buildNeighbourGrid(coords: Float64Array, kinds: Int32Array, cell
   }
   const atoms = i32(n);
   for (let i = 0; i < n; i++) atoms[slotEnd[slotOf[i]]++] = i;
-  return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms, byKind: null };
+  return { cell, coords, kinds, slotX, slotY, slotZ, slotStart, slotEnd, mask, atoms, byKind: null, xByKind: null };
 }
+
+const NO_ATOMS = new Int32Array(0);
 
 function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): NeighbourGrid {
   const n = kinds.length;
   let kindCount = 0;
   for (let i = 0; i < n; i++) if (kinds[i] + 1 > kindCount) kindCount = kinds[i] + 1;
-  const counts = i32(kindCount);
-  for (let i = 0; i < n; i++) counts[kinds[i]]++;
-  const byKind = Array.from(counts, (c) => i32(c));
-  counts.fill(0);
-  for (let i = 0; i < n; i++) byKind[kinds[i]][counts[kinds[i]]++] = i;
-  const none = new Int32Array(0);
-  return { cell, coords, kinds, slotX: none, slotY: none, slotZ: none, slotStart: none, slotEnd: none, mask: 0, atoms: none, byKind };
+  const lists: number[][] = Array.from({ length: kindCount }, () => []);
+  for (let i = 0; i < n; i++) lists[kinds[i]].push(i);
+  const byKind = lists.map((l) => {
+    l.sort((a, b) => coords[3 * a] - coords[3 * b] || a - b);
+    const out = i32(l.length);
+    for (let k = 0; k < l.length; k++) out[k] = l[k];
+    return out;
+  });
+  const xByKind = byKind.map((l) => {
+    const out = f64(l.length);
+    for (let k = 0; k < l.length; k++) out[k] = coords[3 * l[k]];
+    return out;
+  });
+  const none = NO_ATOMS;
+  return { cell, coords, kinds, slotX: none, slotY: none, slotZ: none, slotStart: none, slotEnd: none, mask: 0, atoms: none, byKind, xByKind };
 }
 
 /**
@@ -145,19 +156,30 @@ export function nearestOfKind(
 }
 
 function nearestInList(g: NeighbourGrid, x: number, y: number, z: number, kind: number, radius: number, out?: Float64Array): number {
-  const list = kind < g.byKind!.length ? g.byKind![kind] : null;
-  if (!list) return -1;
+  if (kind >= g.byKind!.length) return -1;
+  const list = g.byKind![kind];
+  const xs = g.xByKind![kind];
   const c = g.coords;
+  // First atom with x ≥ x − radius.
+  const from = x - radius;
+  let lo = 0;
+  let hi = xs.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (xs[mid] < from) lo = mid + 1;
+    else hi = mid;
+  }
+  const to = x + radius;
   let best = -1;
   let bestD2 = radius * radius;
-  // Index order, so on a tie the lower index is kept (as in the cell scan).
-  for (let k = 0; k < list.length; k++) {
+  for (let k = lo; k < xs.length && xs[k] <= to; k++) {
     const j = list[k];
     const ex = c[3 * j] - x;
     const ey = c[3 * j + 1] - y;
     const ez = c[3 * j + 2] - z;
     const d2 = ex * ex + ey * ey + ez * ez;
-    if (d2 < bestD2 || (d2 === bestD2 && best < 0)) {
+    // Ties go to the lower index, as in the cell scan.
+    if (d2 < bestD2 || (d2 === bestD2 && (best < 0 || j < best))) {
       best = j;
       bestD2 = d2;
     }
