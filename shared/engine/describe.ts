@@ -84,9 +84,11 @@ export function describe(
       residual: fit.residuals[k],
     };
   });
+  // Equal ranks (e.g. the three C₂ of D2h) are ordered by axis, z then x then y, larger first, so
+  // the listing does not depend on which equivalent frame the fit happened to find.
   const operations = unsorted
     .map((op, k) => ({ op, rank: operationRank(labels[k]) }))
-    .sort((a, b) => compareTuples(a.rank, b.rank))
+    .sort((a, b) => compareTuples(a.rank, b.rank) || compareAxes(b.op.axis, a.op.axis))
     .map((x) => x.op);
   const axes: StructureResult['elements']['axes'] = [];
   const planes: StructureResult['elements']['planes'] = [];
@@ -125,6 +127,15 @@ export function describe(
       axes[idx].improperOrder = fit.name === 'D∞h' ? 0 : null;
     }
   }
+  // A fixed order for equivalent elements too: principal axis first, then by order and direction;
+  // planes by class (σh, σv, σv′, σd, σ), then normal.
+  axes.sort(
+    (a, b) =>
+      Number(b.principal) - Number(a.principal) ||
+      (b.order === 0 ? Infinity : b.order) - (a.order === 0 ? Infinity : a.order) ||
+      compareAxes(b.direction, a.direction),
+  );
+  planes.sort((a, b) => (PLANE_RANK[a.kind] ?? 5) - (PLANE_RANK[b.kind] ?? 5) || compareAxes(b.normal, a.normal));
   return { operations, elements: { axes, planes, inversionCentre: labels.some((l) => l.kind === 'inversion') } };
 }
 
@@ -159,5 +170,10 @@ export function cleanZeros(v: readonly number[]): number[] {
 
 function compareTuples(a: readonly number[], b: readonly number[]): number {
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i] - b[i];
+  return 0;
+}
+
+function compareAxes(a: readonly number[], b: readonly number[]): number {
+  for (const d of [2, 0, 1]) if (Math.abs(a[d] - b[d]) > 1e-9) return a[d] - b[d];
   return 0;
 }

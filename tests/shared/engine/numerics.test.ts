@@ -10,7 +10,7 @@ import { axisAngle3, det3, frobeniusDistance3, improper3, mul3, reflection3, rot
 import { regularize } from '@shared/engine/operations';
 import { projectOntoGroup } from '@shared/engine/project';
 import { idealGroup } from '@shared/engine/groups';
-import { symmetricEigen } from '@shared/engine/symmetric-eigen';
+import { symmetricEigen, topEigenvector } from '@shared/engine/symmetric-eigen';
 
 const RUNS = { seed: 4242, numRuns: 60 };
 const num = fc.double({ min: -5, max: 5, noNaN: true });
@@ -38,6 +38,53 @@ describe('symmetricEigen (cyclic Jacobi) agrees with ml-matrix', () => {
             expect(s).toBeCloseTo(ours.values[k] * vec[i], 8);
           }
         });
+      }),
+      RUNS,
+    );
+  });
+});
+
+describe('topEigenvector on 4×4 matrices (characteristic polynomial, Jacobi fallback) agrees with ml-matrix', () => {
+  // Spectra chosen to reach both paths: well separated, nearly degenerate and exactly degenerate
+  // top eigenvalues (the latter two fall back to Jacobi). Any unit vector of the top eigenspace is
+  // a correct answer, so the check is its Rayleigh quotient against ml-matrix's largest eigenvalue.
+  it.each([
+    ['separated', [3, 1.2, -1.5, -2.7]],
+    ['close pair (gap 1e-4)', [3, 3 - 1e-4, -2.5, -3.5]],
+    ['close pair (gap 1e-9)', [3, 3 - 1e-9, -2.5, -3.5]],
+    ['degenerate pair', [2, 2, -1, -3]],
+    ['shifted, not trace-free', [103, 101, 100.5, 99]],
+    ['tiny scale', [3e-12, 1e-12, -1e-12, -2e-12]],
+  ])('%s', (_, spectrum) => {
+    fc.assert(
+      fc.property(fc.array(num, { minLength: 16, maxLength: 16 }), (raw) => {
+        // A random orthogonal basis from the QR (Gram–Schmidt) of a random matrix.
+        const basis: number[][] = [];
+        for (let k = 0; k < 4 && basis.length < 4; k++) {
+          let v = raw.slice(4 * k, 4 * k + 4).map((x, i) => x + (i === k ? 7 : 0));
+          for (const u of basis) {
+            const d = v.reduce((s, x, i) => s + x * u[i], 0);
+            v = v.map((x, i) => x - d * u[i]);
+          }
+          const nv = Math.hypot(...v);
+          basis.push(v.map((x) => x / nv));
+        }
+        const a = Array.from({ length: 16 }, (_, k) => {
+          const i = Math.floor(k / 4);
+          const j = k % 4;
+          return basis.reduce((s, u, m) => s + u[i] * spectrum[m] * u[j], 0);
+        });
+        const q = [0, 0, 0, 0];
+        topEigenvector(a, 4, q);
+        expect(Math.hypot(...q)).toBeCloseTo(1, 12);
+        const top = Math.max(
+          ...new EigenvalueDecomposition(new Matrix([0, 1, 2, 3].map((i) => a.slice(4 * i, 4 * i + 4))), { assumeSymmetric: true })
+            .realEigenvalues,
+        );
+        let rayleigh = 0;
+        for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) rayleigh += q[i] * a[4 * i + j] * q[j];
+        const scale = Math.max(...spectrum.map(Math.abs));
+        expect(Math.abs(rayleigh - top)).toBeLessThan(1e-12 * scale);
       }),
       RUNS,
     );
