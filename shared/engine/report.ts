@@ -30,8 +30,8 @@ export function snapCost(a: Analysis, fit: FrameFit): { rmsd: number; max: numbe
 /** Ladder JSON with snap costs (memoised per distinct group). */
 export function ladderJson(a: Analysis, fits: Map<string, FrameFit>, ranges: readonly LadderRange[] = ladderRanges(a)): LadderRungJson[] {
   return ranges.map((r) => {
-    const fit = fitFor(a, r.found, fits);
-    const cost = snapCost(a, fit);
+    // C1 leaves every atom where it is: nothing to fit or measure.
+    const cost = r.found.name === 'C1' ? { rmsd: 0, max: 0 } : snapCost(a, fitFor(a, r.found, fits));
     return {
       group: r.found.name,
       order: r.found.order === 0 ? 0 : groupOrder(r.found.name),
