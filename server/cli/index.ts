@@ -1,12 +1,13 @@
-import { existsSync } from 'node:fs';
-import { fileURLToPath, pathToFileURL } from 'node:url';
-import { EXIT_BAD_INPUT, EXIT_USAGE, UsageError } from './options';
+import { fileURLToPath } from 'node:url';
+import { EXIT_USAGE, UsageError } from './options';
 import { printError } from './output';
 
 /**
  * The `pointfold` command line: `npm run --silent pointfold -- <command> …` (DESIGN.md, "The
  * command line"). Each command's module is loaded only when used, so `snap`, `perceive` and
- * `ladder` start without the server, the database layer or the queue.
+ * `ladder` start without the server, the database layer or the queue. `npm run pointfold` starts
+ * it through server/cli/launch.mjs (a cached bundle of this file); `tsx server/cli/index.ts`
+ * runs it directly.
  */
 
 const HELP = `Usage: pointfold <command> [options]
@@ -23,26 +24,12 @@ Exit status: 0 done; 1 bad input (the other structures are still processed); 2 u
 
 type Runner = (argv: string[]) => Promise<number>;
 
-/** Commands written in another module that may not exist yet in this build: loaded by file URL. */
-async function external(file: string, command: string): Promise<Runner> {
-  const url = new URL(file, import.meta.url);
-  if (!existsSync(fileURLToPath(url))) {
-    return async () => {
-      printError(`pointfold ${command}: not available yet in this build`);
-      return EXIT_BAD_INPUT;
-    };
-  }
-  const mod = (await import(pathToFileURL(fileURLToPath(url)).href)) as { run?: Runner };
-  if (typeof mod.run !== 'function') throw new Error(`${file} does not export run(argv)`);
-  return mod.run;
-}
-
 const COMMANDS: Record<string, () => Promise<Runner>> = {
   snap: async () => (await import('./snap-command')).runSnap,
   perceive: async () => (await import('./perceive-command')).runPerceive,
   ladder: async () => (await import('./perceive-command')).runLadder,
-  submit: () => external('./submit.ts', 'submit'),
-  token: () => external('./token.ts', 'token'),
+  submit: async () => (await import('./submit')).run,
+  token: async () => (await import('./token')).run,
 };
 
 /** Run the CLI with `argv` (without node and the script). Returns the exit status. */
@@ -68,18 +55,26 @@ export async function main(argv: string[]): Promise<number> {
   }
 }
 
+/**
+ * What a `pointfold` process does: run `main(argv)` and set the exit status — 70 (EX_SOFTWARE)
+ * with the stack on stderr when something throws, since that is a bug of ours, not bad input.
+ * Called by server/cli/launch.mjs and when this file is run directly.
+ */
+export async function runCommandLine(argv: string[]): Promise<number> {
+  let code: number;
+  try {
+    // `npm run` starts scripts in the package root; paths on the command line are meant relative
+    // to where the user typed them, which npm passes as INIT_CWD.
+    if (process.env.npm_lifecycle_event === 'pointfold' && process.env.INIT_CWD) process.chdir(process.env.INIT_CWD);
+    code = await main(argv);
+  } catch (e) {
+    process.stderr.write(`pointfold: internal error: ${(e as Error)?.stack ?? String(e)}\n`);
+    code = 70;
+  }
+  process.exitCode = code;
+  return code;
+}
+
 if (process.argv[1] != null && fileURLToPath(import.meta.url) === process.argv[1]) {
-  // `npm run` starts scripts in the package root; paths on the command line are meant relative
-  // to where the user typed them, which npm passes as INIT_CWD.
-  if (process.env.npm_lifecycle_event === 'pointfold' && process.env.INIT_CWD) process.chdir(process.env.INIT_CWD);
-  main(process.argv.slice(2)).then(
-    (code) => {
-      process.exitCode = code;
-    },
-    (e: unknown) => {
-      // A bug of ours, not bad input: keep the stack for the report (exit status 70, EX_SOFTWARE).
-      process.stderr.write(`pointfold: internal error: ${(e as Error)?.stack ?? String(e)}\n`);
-      process.exitCode = 70;
-    },
-  );
+  void runCommandLine(process.argv.slice(2));
 }
