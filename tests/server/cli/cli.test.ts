@@ -1,42 +1,21 @@
-import { spawn } from 'node:child_process';
 import { copyFileSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { ZipArchive } from 'archiver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readStructures } from '@shared/formats';
+import { runLauncher, SAMPLES, type Run } from './run-cli';
 
 /**
  * The command line as DESIGN.md specifies it ("The command line"), run as a child process the way
- * scripts run it. Sample files are constructed test inputs (tests/shared/formats/samples). Point
- * groups expected for the sample molecules are the handbook ones (water C2v, ammonia C3v,
- * methane Td, ethylene D2h, benzene D6h, ammonium Td: e.g. Cotton, "Chemical Applications of
- * Group Theory", 3rd ed., chapter 3 — from memory).
+ * scripts run it: through server/cli/launch.mjs, as `npm run pointfold` does (its bundle cached in
+ * a folder of this test file's own). Sample files are constructed test inputs
+ * (tests/shared/formats/samples). Point groups expected for the sample molecules are the handbook
+ * ones (water C2v, ammonia C3v, methane Td, ethylene D2h, benzene D6h, ammonium Td: e.g. Cotton,
+ * "Chemical Applications of Group Theory", 3rd ed., chapter 3 — from memory).
  */
 
-const ROOT = fileURLToPath(new URL('../../../', import.meta.url));
-const SAMPLES = join(ROOT, 'tests/shared/formats/samples');
-const TSX = join(ROOT, 'node_modules/.bin/tsx');
-const CLI = join(ROOT, 'server/cli/index.ts');
-
-interface Run {
-  status: number | null;
-  stdout: string;
-  stderr: string;
-}
-
-function cli(args: string[]): Promise<Run> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(TSX, [CLI, ...args], { cwd: ROOT });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString('utf8')));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString('utf8')));
-    child.on('error', reject);
-    child.on('close', (status) => resolve({ status, stdout, stderr }));
-  });
-}
+const cli = (args: string[]): Promise<Run> => runLauncher(args, { PF_CLI_CACHE: join(tmp, 'cli-cache') });
 
 const sample = (name: string) => join(SAMPLES, name);
 let tmp: string;
