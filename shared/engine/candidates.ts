@@ -11,7 +11,7 @@ import {
   type Vec3,
 } from './mat3';
 import { matchOperation, probeOperation } from './operations';
-import { addOperation, closeUnder, exactOperation, refineOperation, type OpStore } from './op-store';
+import { addOperation, closeUnder, exactOperation, findOp, refineOperation, type OpStore } from './op-store';
 import { f64, i32, copyI32 } from './arena';
 
 /**
@@ -50,7 +50,7 @@ export function generateCandidates(store: OpStore): void {
     if (!probeOperation(store.ctx, m, tol, probe, images)) return false;
     // probe[0], probe[1] are the anchors: the key is known before the O(N) match.
     const key = (images[0] * n + images[1]) * 2 + (det < 0 ? 1 : 0);
-    if (store.byKey.has(key)) return true;
+    if (findOp(store, key)) return true;
     const residual = matchOperation(store.ctx, m, tol, perm);
     if (!Number.isFinite(residual)) return false;
     // Exactly symmetric input (re-snaps, written files read back): the candidate built from

@@ -26,32 +26,33 @@ export function orientFit(a: Analysis, fit: FrameFit): OrientedFit {
   return { fit, S, labels };
 }
 
-/** Orbits of atoms under the fitted group's permutations, each sorted, ordered by first atom. */
+/**
+ * Orbits of atoms under a group, given the permutations of all its elements (a closed set, as
+ * fits hold), each orbit sorted, ordered by first atom.
+ */
 export function equivalenceClasses(n: number, perms: readonly Int32Array[]): number[][] {
-  const parent = i32(n);
-  for (let i = 0; i < n; i++) parent[i] = i;
-  const find = (i: number): number => {
-    while (parent[i] !== i) {
-      parent[i] = parent[parent[i]];
-      i = parent[i];
-    }
-    return i;
-  };
-  for (const p of perms) {
-    for (let i = 0; i < n; i++) {
-      const a = find(i);
-      const b = find(p[i]);
-      if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
-    }
-  }
-  const classes = new Map<number, number[]>();
+  // The orbit of atom i is {π(i) : π in the group}: every permutation of the group is listed, so
+  // one pass from each not yet classified atom (in index order) finds its whole orbit.
+  const classOf = i32(n).fill(-1);
+  const classes: number[][] = [];
   for (let i = 0; i < n; i++) {
-    const r = find(i);
-    const list = classes.get(r) ?? [];
-    list.push(i);
-    classes.set(r, list);
+    if (classOf[i] >= 0) continue;
+    const k = classes.length;
+    const members: number[] = [];
+    for (const p of perms) {
+      const j = p[i];
+      if (classOf[j] < 0) {
+        classOf[j] = k;
+        members.push(j);
+      }
+    }
+    if (classOf[i] < 0) {
+      classOf[i] = k;
+      members.push(i);
+    }
+    classes.push(members.sort((a, b) => a - b));
   }
-  return [...classes.values()].sort((p, q) => p[0] - q[0]);
+  return classes;
 }
 
 /**

@@ -83,9 +83,8 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
     kinds[i] = k;
     masses[i] = kindMass[k];
     numbers[i] = kindNumber[k];
-    const c = [a.x, a.y, a.z];
     for (let d = 0; d < 3; d++) {
-      const v = c[d];
+      const v = d === 0 ? a.x : d === 1 ? a.y : a.z;
       if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE) {
         throw new EngineError(
           'bad-coordinates',

@@ -47,7 +47,17 @@ export interface OpStore {
   readonly a2: number;
   readonly byKey: Map<number, SymOp>;
   readonly identity: SymOp;
+  /**
+   * For small structures (2N² keys ≤ {@link DENSE_KEYS}) the same operations in an array indexed
+   * by key, and a per-key stamp for closure walks: no hashing in the innermost loops.
+   */
+  readonly dense: (SymOp | undefined)[] | null;
+  readonly stamp: Int32Array | null;
+  generation: number;
 }
+
+/** Largest key space held densely (see OpStore.dense). */
+const DENSE_KEYS = 1 << 16;
 
 /** Creates the store with the identity and the anchors (farthest atom; farthest from its line). */
 export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
@@ -86,10 +96,13 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
     a2,
     byKey: new Map(),
     identity: undefined as unknown as SymOp,
+    dense: 2 * n * n <= DENSE_KEYS ? new Array<SymOp | undefined>(2 * n * n) : null,
+    stamp: 2 * n * n <= DENSE_KEYS ? i32(2 * n * n) : null,
+    generation: 0,
   };
   const identity = makeOp(keyOf(store, perm, 1), perm, identity3(), 0, { det: 1, kind: 'identity', order: 1, j: 0, axis: [0, 0, 0] });
   (store as { identity: SymOp }).identity = identity;
-  store.byKey.set(identity.key, identity);
+  storeOp(store, identity);
   return store;
 }
 
@@ -162,9 +175,9 @@ export function exactOperation(store: OpStore, matrix: Mat3, perm: Int32Array, d
 
 /** Adds a refined operation unless one with the same key is already known; returns the stored one. */
 export function addOperation(store: OpStore, op: SymOp): SymOp {
-  const old = store.byKey.get(op.key);
+  const old = findOp(store, op.key);
   if (old) return old;
-  store.byKey.set(op.key, op);
+  storeOp(store, op);
   return op;
 }
 
@@ -176,7 +189,7 @@ export function addOperation(store: OpStore, op: SymOp): SymOp {
  */
 export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const key = productKey(store, g, h);
-  const known = store.byKey.get(key);
+  const known = findOp(store, key);
   if (known) return known;
   const n = store.mol.n;
   const perm = i32(n);
@@ -189,8 +202,18 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const op: SymOp = fit
     ? makeOp(key, perm, fit.matrix, residualWithPermutation(store.mol.y, fit.matrix, perm), fit.type)
     : makeOp(key, perm, mul3(g.matrix, h.matrix), Infinity, { det, kind: det > 0 ? 'rotation' : 'improper', order: 0, j: 0, axis: [0, 0, 0] }, '?');
-  store.byKey.set(key, op);
+  storeOp(store, op);
   return op;
+}
+
+/** The stored operation with this key, if any. */
+export function findOp(store: OpStore, key: number): SymOp | undefined {
+  return store.dense ? store.dense[key] : store.byKey.get(key);
+}
+
+function storeOp(store: OpStore, op: SymOp): void {
+  store.byKey.set(op.key, op);
+  if (store.dense) store.dense[op.key] = op;
 }
 
 /**
@@ -207,17 +230,23 @@ export function closeUnder(
   failure?: { residual: number },
 ): SymOp[] | null {
   const elements: SymOp[] = [store.identity];
-  const seen = new Set<number>([store.identity.key]);
+  // Membership: a stamp per key when the store is dense, else a set.
+  const stamp = store.stamp;
+  const generation = ++store.generation;
+  const seen = stamp ? null : new Set<number>();
+  const mark = (key: number) => (stamp ? (stamp[key] = generation) : seen!.add(key));
+  const has = (key: number) => (stamp ? stamp[key] === generation : seen!.has(key));
+  mark(store.identity.key);
   for (let k = 0; k < elements.length; k++) {
     const e = elements[k];
     for (const g of generators) {
       const p = product(store, e, g);
-      if (seen.has(p.key)) continue;
+      if (has(p.key)) continue;
       if (!(p.residual <= tol)) {
         if (failure) failure.residual = p.residual;
         return null;
       }
-      seen.add(p.key);
+      mark(p.key);
       elements.push(p);
       if (elements.length > maxOrder) {
         if (failure) failure.residual = Infinity;

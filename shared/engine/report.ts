@@ -1,5 +1,5 @@
 import type { LadderRungJson, StructureResult } from '../contracts/structure';
-import { f64 } from './arena';
+import { copyF64, f64 } from './arena';
 import { snapSettingsSchema, type SnapSettings } from '../contracts/settings';
 import type { MoleculeInput } from '../formats/types';
 import { analyse, groupAt, type Analysis } from './analysis';
@@ -97,12 +97,17 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   const toOut: Mat3 = standard ? identity3() : mul3(fit.Q, transpose3(S));
   const frameRot: Mat3 = standard ? S : fit.Q; // canonical → output
   const out = f64(3 * n);
+  const W = fit.W;
+  const F = frameRot;
   for (let i = 0; i < n; i++) {
-    const w = [fit.W[3 * i], fit.W[3 * i + 1], fit.W[3 * i + 2]];
-    const v = apply3(frameRot, w);
-    for (let d = 0; d < 3; d++) out[3 * i + d] = v[d];
+    const a = W[3 * i];
+    const b = W[3 * i + 1];
+    const c = W[3 * i + 2];
+    out[3 * i] = F[0] * a + F[1] * b + F[2] * c;
+    out[3 * i + 1] = F[3] * a + F[4] * b + F[5] * c;
+    out[3 * i + 2] = F[6] * a + F[7] * b + F[8] * c;
   }
-  const centredOut = out.slice();
+  const centredOut = copyF64(out);
   if (!standard) for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) out[3 * i + d] += mol.centre[d];
   for (let i = 0; i < out.length; i++) if (Math.abs(out[i]) < 1e-11) out[i] = 0;
   const atoms = mol.symbols.map((element, i) => ({ element, x: out[3 * i], y: out[3 * i + 1], z: out[3 * i + 2] }));
