@@ -1,6 +1,6 @@
 import type { OperationJson, StructureResult } from '../contracts/structure';
 import type { Analysis } from './analysis';
-import type { FrameFit } from './fit-frame';
+import { elementResiduals, type FrameFit } from './fit-frame';
 import { labelElements, type ElementLabel } from './labels';
 import { apply3, canonicalDirection, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
 import { standardOrientation } from './orient';
@@ -66,6 +66,7 @@ export function describe(
   toOut: Mat3,
 ): { operations: OperationJson[]; elements: StructureResult['elements'] } {
   const { fit, S, labels } = o;
+  const residuals = elementResiduals(fit);
   const St = transpose3(S);
   const outT = transpose3(toOut);
   const linear = fit.name === 'C∞v' || fit.name === 'D∞h';
@@ -82,7 +83,7 @@ export function describe(
       axis: cleanZeros(axis) as [number, number, number],
       matrix: cleanZeros(m),
       permutation: Array.from(fit.perms[k]),
-      residual: fit.residuals[k],
+      residual: residuals[k],
     };
   });
   // Equal ranks (e.g. the three C₂ of D2h) are ordered by axis, z then x then y, larger first, so

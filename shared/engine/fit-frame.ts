@@ -22,8 +22,6 @@ export interface FrameFit {
   readonly ideal: IdealGroup;
   /** Permutation of each ideal element (same order as ideal.elements). */
   readonly perms: readonly Int32Array[];
-  /** Residual (Å) of each element with the fitted matrix Q·D·Qᵀ on the input. */
-  readonly residuals: readonly number[];
   /** The found element paired with each ideal element (empty for the linear groups and Kh). */
   readonly images: readonly FitElement[];
   /** Exactly symmetric coordinates in the canonical frame (centred). */
@@ -134,8 +132,16 @@ export function fitFinite(
       if (gain <= 1e-8 * cost + 1e-28) break;
     }
   }
-  const residuals = ideal.elements.map((e, k) => residualWithPermutation(y, mul3(mul3(Q, e.matrix), transpose3(Q)), perms[k]));
-  return { name, Q, ideal, perms, residuals, images, W, Z };
+  return { name, Q, ideal, perms, images, W, Z };
+}
+
+/**
+ * Residual (Å) of each element of a fit: the largest |Q·D·Qᵀ yᵢ − y_π(i)| over atoms, computed
+ * in the canonical frame as |D zᵢ − z_π(i)| (z = Qᵀy). Only reports need it, so it is not part
+ * of every fit (the ladder fits many groups).
+ */
+export function elementResiduals(fit: FrameFit): number[] {
+  return fit.ideal.elements.map((e, k) => residualWithPermutation(fit.Z, e.matrix, fit.perms[k]));
 }
 
 /**
@@ -277,7 +283,6 @@ function fitAtom(a: Analysis): FrameFit {
     Q: identity3(),
     ideal,
     perms: [a.store.identity.perm],
-    residuals: [0],
     images: [],
     W: f64(3),
     Z: copyF64(a.mol.y),
@@ -299,6 +304,5 @@ function fitLinear(a: Analysis, name: 'C∞v' | 'D∞h'): FrameFit {
   const ideal = idealGroup(centro ? 'D2h' : 'C2v');
   const identity = a.store.identity.perm;
   const perms = ideal.elements.map((e) => (e.matrix[8] > 0 || !inv ? identity : inv));
-  const residuals = ideal.elements.map((e, k) => residualWithPermutation(y, mul3(mul3(Q, e.matrix), transpose3(Q)), perms[k]));
-  return { name, Q, ideal, perms, residuals, images: [], W, Z };
+  return { name, Q, ideal, perms, images: [], W, Z };
 }

@@ -191,12 +191,37 @@ export function atomFrom(
   line: number | null,
 ): AtomJson {
   const element = elementOf(elementToken, atom, line);
-  const c = [xs, ys, zs].map((raw) => {
-    const v = parseNumber(raw);
-    if (v == null) throw new FrameError(line, `atom ${atom}: coordinate ${quote(raw)} is not a number`);
-    return checkCoordinate(v, raw, atom, line);
-  });
-  return { element, x: c[0], y: c[1], z: c[2] };
+  return { element, x: coordinateFrom(xs, atom, line), y: coordinateFrom(ys, atom, line), z: coordinateFrom(zs, atom, line) };
+}
+
+function coordinateFrom(raw: string, atom: number, line: number | null): number {
+  const v = parseNumber(raw);
+  if (v == null) throw new FrameError(line, `atom ${atom}: coordinate ${quote(raw)} is not a number`);
+  return checkCoordinate(v, raw, atom, line);
+}
+
+/**
+ * The whitespace-separated fields of a line, like `line.trim().split(/\s+/)` (an empty line
+ * gives [''] as that does), by a scan of the characters for the common ASCII case — the atom
+ * lines of large files are read this way.
+ */
+export function splitFields(line: string): string[] {
+  const out: string[] = [];
+  let start = -1;
+  for (let i = 0; i < line.length; i++) {
+    const c = line.charCodeAt(i);
+    if (c > 127) return line.trim().split(/\s+/);
+    const space = c === 32 || (c >= 9 && c <= 13);
+    if (space) {
+      if (start >= 0) {
+        out.push(line.slice(start, i));
+        start = -1;
+      }
+    } else if (start < 0) start = i;
+  }
+  if (start >= 0) out.push(line.slice(start));
+  if (out.length === 0) out.push('');
+  return out;
 }
 
 /** Too-many-atoms message, shared so every format words it the same. */

@@ -11,6 +11,7 @@ import {
   multiplicityFrom,
   parseInteger,
   quote,
+  splitFields,
   tooManyAtoms,
   type ReadOptions,
 } from './common';
@@ -102,7 +103,7 @@ function parseComment(comment: string, line: number): CommentInfo {
 const COUNT_LINE = /^\s*\d+\s*$/;
 
 function looksLikeAtomLine(line: string): boolean {
-  const t = line.trim().split(/\s+/);
+  const t = splitFields(line);
   return t.length >= 4 && /^[A-Za-z]{1,3}$|^\d{1,3}$/.test(t[0]) && t.slice(1, 4).every((s) => !Number.isNaN(Number(s)));
 }
 
@@ -174,7 +175,7 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
       found++;
       if (firstError) continue;
       try {
-        const t = next.trim().split(/\s+/);
+        const t = splitFields(next);
         const need = Math.max(info.speciesColumn, info.posColumn + 2) + 1;
         if (t.length < need) throw new FrameError(r.lineNo, `atom ${found}: expected element x y z, found ${quote(next)}`);
         atoms.push(atomFrom(t[info.speciesColumn], t[info.posColumn], t[info.posColumn + 1], t[info.posColumn + 2], found, r.lineNo));
