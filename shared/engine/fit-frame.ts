@@ -2,7 +2,7 @@ import type { Analysis, FoundGroup } from './analysis';
 import { EngineError } from './errors';
 import { idealGroup, type IdealGroup } from './groups';
 import { correlation, rotationFromCorrelation } from './kabsch';
-import { basisWithZ, dot3, frobeniusDistance3, identity3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { basisWithZ, dot3, identity3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
 import { productKey, type SymOp } from './op-store';
 import { residualWithPermutation, type OpKind } from './operations';
 import { projectOntoGroup } from './project';
@@ -266,14 +266,30 @@ function frameFromImages(ideal: IdealGroup, images: readonly FitElement[]): { Q:
         Q = basisWithZ(t);
       }
     }
-    const Qt = transpose3(Q);
     let error = 0;
-    for (let k = 0; k < ideal.elements.length; k++) {
-      error = Math.max(error, frobeniusDistance3(mul3(mul3(Q, ideal.elements[k].matrix), Qt), images[k].matrix));
+    const stopAt = best ? best.error : Infinity;
+    for (let k = 0; k < ideal.elements.length && error < stopAt; k++) {
+      error = Math.max(error, conjugateDistance(Q, ideal.elements[k].matrix, images[k].matrix));
     }
     if (!best || error < best.error) best = { Q, error };
   }
   return best!;
+}
+
+/** ‖Q·D·Qᵀ − M‖_F without intermediate matrices. */
+function conjugateDistance(Q: Mat3, D: Mat3, M: Mat3): number {
+  let sum = 0;
+  for (let r = 0; r < 3; r++) {
+    // row r of Q·D
+    const a0 = Q[3 * r] * D[0] + Q[3 * r + 1] * D[3] + Q[3 * r + 2] * D[6];
+    const a1 = Q[3 * r] * D[1] + Q[3 * r + 1] * D[4] + Q[3 * r + 2] * D[7];
+    const a2 = Q[3 * r] * D[2] + Q[3 * r + 1] * D[5] + Q[3 * r + 2] * D[8];
+    for (let c = 0; c < 3; c++) {
+      const v = a0 * Q[3 * c] + a1 * Q[3 * c + 1] + a2 * Q[3 * c + 2] - M[3 * r + c];
+      sum += v * v;
+    }
+  }
+  return Math.sqrt(sum);
 }
 
 function fitAtom(a: Analysis): FrameFit {

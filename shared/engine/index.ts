@@ -4,7 +4,7 @@
  * standard frame and report. Pure TypeScript (no Node or DOM). See notes/engine-api.md.
  */
 export { EngineError, engineErrorCodes, isEngineError, type EngineErrorCode } from './errors';
-export { perceive, ladder, type Perception } from './perceive';
+export { perceive, pointGroupAt, ladder, type Perception } from './perceive';
 export { snap, ENGINE_VERSION } from './report';
 export { allowedTargets } from './targets';
 export { groupOrder, isKnownGroup, parseGroupName } from './groups';

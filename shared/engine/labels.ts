@@ -32,7 +32,22 @@ const Z: Vec3 = [0, 0, 1];
  * in Dₙd and Td all are σd; in C2v and D2h the two vertical planes are σv and σv′), σ for Ih.
  * Powers are counted counter-clockwise about the sign-canonical axis.
  */
-export function labelElements(name: string, ideal: IdealGroup, S: Mat3): ElementLabel[] {
+export function labelElements(name: string, ideal: IdealGroup, S: Mat3): readonly ElementLabel[] {
+  // Most groups reach only a few distinct frames S (discrete choices), so labels are remembered
+  // per group and frame (entries rounded far below any geometric meaning).
+  let key = name;
+  for (let k = 0; k < 9; k++) key += `,${Math.round(S[k] * 1e12)}`;
+  const hit = labelCache.get(key);
+  if (hit) return hit;
+  const labels = computeLabels(name, ideal, S);
+  if (labelCache.size >= 4096) labelCache.clear();
+  labelCache.set(key, labels);
+  return labels;
+}
+
+const labelCache = new Map<string, readonly ElementLabel[]>();
+
+function computeLabels(name: string, ideal: IdealGroup, S: Mat3): ElementLabel[] {
   const St = transpose3(S);
   const std = ideal.elements.map((e) => mul3(mul3(S, e.matrix), St));
   const fam = groupFamily(name).family;

@@ -55,6 +55,17 @@ export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: num
 }
 
 /**
+ * Just the Schoenflies name of the group perceived at `tolerance` Å — what {@link perceive}
+ * reports as pointGroup, without fitting, orienting or describing it (the write-back check
+ * needs only this). @throws EngineError for unusable input.
+ */
+export function pointGroupAt(atoms: readonly AtomJson[], tolerance: number): string {
+  if (!(tolerance > 0) || tolerance > 1) throw new EngineError('bad-settings', `tolerance ${tolerance} Å is outside (0, 1] Å`);
+  const mol = prepareMolecule(atoms);
+  return groupAt(analyse(mol, 2 * tolerance), tolerance).name;
+}
+
+/**
  * The ladder: the group perceived at each of 24 log-spaced tolerances from 1e-4 to 0.3 Å, merged
  * into ranges [fromTolerance, toTolerance) with exact change points, each with the displacement
  * RMSD and maximum (Å, after optimal superposition) that snapping to it would cost.

@@ -1,7 +1,7 @@
 import type { OutputFormat } from '../contracts/settings';
 import type { AtomJson, StructureResult } from '../contracts/structure';
 import { EngineError } from '../engine/errors';
-import { perceive } from '../engine';
+import { pointGroupAt } from '../engine';
 import { writeMolfile, readMolfile } from './molfile';
 import { readQcschema, writeQcschema } from './qcschema';
 import type { ReadResult } from './types';
@@ -122,6 +122,23 @@ function compareAtoms(format: OutputFormat, got: readonly AtomJson[], want: read
   }
 }
 
+/** The group of a snapped result at each verify tolerance, perceived once per result (not once per format). */
+const expectedGroups = new WeakMap<readonly AtomJson[], Map<number, string>>();
+
+function expectedGroup(result: StructureResult, tolerance: number): string {
+  let byTolerance = expectedGroups.get(result.atoms);
+  if (!byTolerance) {
+    byTolerance = new Map();
+    expectedGroups.set(result.atoms, byTolerance);
+  }
+  let group = byTolerance.get(tolerance);
+  if (group === undefined) {
+    group = pointGroupAt(result.atoms, tolerance);
+    byTolerance.set(tolerance, group);
+  }
+  return group;
+}
+
 /**
  * Read a written file back and prove the symmetry survived its digits. The atoms must read back
  * in order with the same elements and coordinates (within the format's precision), and the point
@@ -164,7 +181,7 @@ export function verifyWritten(format: OutputFormat, text: string, result: Struct
     fail(format, `charge/multiplicity read back as ${charge}/${multiplicity}, expected ${result.charge}/${result.multiplicity}`);
   }
   const tolerance = VERIFY_TOLERANCE[format];
-  const want = perceive(result.atoms, { tolerance }).pointGroup;
-  const got = perceive(first.molecule.atoms, { tolerance }).pointGroup;
+  const want = expectedGroup(result, tolerance);
+  const got = pointGroupAt(first.molecule.atoms, tolerance);
   if (got !== want) fail(format, `re-perceived at ${tolerance} Å as ${got}, but the snapped structure is ${want} at that tolerance`);
 }

@@ -7,7 +7,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { StructureResult } from '@shared/contracts/structure';
-import { allowedTargets, EngineError, LADDER_MAX, LADDER_MIN, LADDER_RUNGS, ladder, perceive, snap } from '@shared/engine';
+import { allowedTargets, EngineError, LADDER_MAX, LADDER_MIN, LADDER_RUNGS, ladder, perceive, pointGroupAt, snap } from '@shared/engine';
 import { GENERIC_SEEDS, input, mv, orbit, scramble, setDistance } from './helpers';
 import { benzene, water } from './molecule-builders';
 
@@ -58,6 +58,15 @@ describe('every finite family, from a noisy, moved and re-ordered synthetic orbi
     const b = snap(input(scramble(ideal, 202).atoms));
     const c = snap(input(scramble(ideal, 303).atoms));
     expect(setDistance(b.atoms, c.atoms)).toBeLessThan(1e-9);
+  });
+});
+
+describe('pointGroupAt (the write-back check) names what perceive names', () => {
+  it.each(FAMILIES)('%s, noisy, at tolerances across the ladder', (name) => {
+    const atoms = scramble(orbit(name, GENERIC_SEEDS), 404, 0.002).atoms;
+    for (const tolerance of [1e-6, 1e-4, 0.001, 0.003, 0.01, 0.05]) {
+      expect(pointGroupAt(atoms, tolerance)).toBe(perceive(atoms, { tolerance }).pointGroup);
+    }
   });
 });
 
