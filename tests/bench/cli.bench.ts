@@ -9,13 +9,16 @@ import { GENERATORS, rng, syntheticStructure, toXyz } from './synthetic-structur
  * CLI throughput: `pointfold snap --json` on a multi-frame XYZ of 5,000 synthetic structures
  * (invented data: 20–60 atoms in symmetry orbits of 15 common groups, randomly rotated, ±1e-3 Å
  * noise; see synthetic-structures.ts), timed from process start to exit, single process.
- * Target on the 2-core development machine: ≥ 2,000 structures/s. Also prints the start-up time
- * alone (`--help`) and how often the perceived group equals the construction group.
+ * Target on the 2-core development machine: ≥ 2,000 structures/s. The command is what
+ * `npm run pointfold` runs (`node server/cli/launch.mjs`, the cached bundle — built first, so
+ * the timed runs are warm); the same run through `npm run --silent pointfold` adds npm's own
+ * start-up and is printed too. Three runs (the machine is shared: the best is the steadiest
+ * figure, all are printed). Also prints the start-up alone (`--help`) and how often the
+ * perceived group equals the construction group.
  */
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
-const TSX = join(ROOT, 'node_modules/.bin/tsx');
-const CLI = join(ROOT, 'server/cli/index.ts');
+const LAUNCH = join(ROOT, 'server/cli/launch.mjs');
 
 export async function runCliBench(count = 5000): Promise<void> {
   const random = rng(20240611);
@@ -27,21 +30,31 @@ export async function runCliBench(count = 5000): Promise<void> {
     const file = join(dir, 'synthetic.xyz');
     writeFileSync(file, toXyz(structures));
 
+    spawnSync(process.execPath, [LAUNCH, '--help'], { cwd: ROOT, encoding: 'utf8' }); // builds the bundle if stale
     let t = performance.now();
-    spawnSync(TSX, [CLI, '--help'], { cwd: ROOT, encoding: 'utf8' });
+    spawnSync(process.execPath, [LAUNCH, '--help'], { cwd: ROOT, encoding: 'utf8' });
     const startup = performance.now() - t;
 
-    t = performance.now();
-    const run = spawnSync(TSX, [CLI, 'snap', file, '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 2 ** 31 - 1 });
-    const seconds = (performance.now() - t) / 1000;
-    if (run.error) throw run.error;
+    const timed = (command: string, args: string[]) => {
+      const t0 = performance.now();
+      const r = spawnSync(command, args, { cwd: ROOT, encoding: 'utf8', maxBuffer: 2 ** 31 - 1 });
+      if (r.error) throw r.error;
+      return { run: r, seconds: (performance.now() - t0) / 1000 };
+    };
+    const runs = [0, 1, 2].map(() => timed(process.execPath, [LAUNCH, 'snap', file, '--json']));
+    const best = runs.reduce((a, b) => (b.seconds < a.seconds ? b : a));
+    const viaNpm = timed('npm', ['run', '--silent', 'pointfold', '--', 'snap', file, '--json']);
+    const { run, seconds } = best;
     const out = JSON.parse(run.stdout) as { structures: { pointGroup?: string; error?: string }[] };
     const failed = out.structures.filter((s) => s.error != null).length;
     const agree = out.structures.filter((s, i) => s.pointGroup === structures[i].group).length;
     const mib = Buffer.byteLength(run.stdout) / 2 ** 20;
 
     console.log(`cli: snap --json, ${count} synthetic structures (${atoms} atoms, mean ${(atoms / count).toFixed(1)}), one process`);
-    console.log(`cli:   wall ${seconds.toFixed(2)} s including start-up → ${(count / seconds).toFixed(0)} structures/s (target ≥ 2000)`);
+    console.log(
+      `cli:   node server/cli/launch.mjs: best of 3 ${seconds.toFixed(2)} s including start-up → ${(count / seconds).toFixed(0)} structures/s (target ≥ 2000); runs ${runs.map((r) => r.seconds.toFixed(2)).join(', ')} s`,
+    );
+    console.log(`cli:   npm run --silent pointfold: ${viaNpm.seconds.toFixed(2)} s → ${(count / viaNpm.seconds).toFixed(0)} structures/s`);
     console.log(`cli:   start-up alone (--help) ${startup.toFixed(0)} ms; JSON out ${mib.toFixed(1)} MiB; exit status ${run.status}`);
     const pairs = new Map<string, number>();
     out.structures.forEach((s, i) => {
