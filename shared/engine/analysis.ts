@@ -31,6 +31,16 @@ export interface Analysis {
   readonly closures: ClosureNode;
   /** The store's operations by residual (see sortedOperations). */
   sorted: SymOp[];
+  /** Where the last greedy walk of computeGroupAt stopped, to resume at a higher tolerance. */
+  walk: {
+    ops: readonly SymOp[];
+    index: number;
+    t: number;
+    group: ClosureOutcome | null;
+    gens: SymOp[];
+    notClosed: boolean;
+    flipAbove: number;
+  } | null;
 }
 
 /** Node of the trie of generator lists closed so far. */
@@ -85,7 +95,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: { outcome: null, children: new Map() }, sorted: [] };
+  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: { outcome: null, children: new Map() }, sorted: [], walk: null };
 }
 
 /**
@@ -124,20 +134,30 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
     return { name, order: 0, tolerance: t, elements: [], notClosed: false, id: name };
   }
   const ops = sortedOperations(a);
-  let group: ClosureOutcome | null = null;
-  const gens: SymOp[] = [];
-  let notClosed = false;
-  for (const op of ops) {
+  // The greedy walk at t is a prefix of the walk at any t′ > t as long as no operation it left
+  // out could have been taken at t′ (each refusal records the tolerance above which it might
+  // not hold): then the walk resumes where the last one stopped (the ladder asks in rising t).
+  const last = a.walk;
+  const resume = last !== null && last.ops === ops && last.t <= t && t < last.flipAbove;
+  let group: ClosureOutcome | null = resume ? last.group : null;
+  const gens: SymOp[] = resume ? [...last.gens] : [];
+  let notClosed = resume ? last.notClosed : false;
+  const flip = { above: resume ? last.flipAbove : Infinity };
+  let k = resume ? last.index : 0;
+  for (; k < ops.length; k++) {
+    const op = ops[k];
     if (!(op.residual <= t)) break;
     if (op === store.identity || (group && group.keys!.has(op.key))) continue;
     gens.push(op);
-    const closed = closeAt(a, gens, t);
+    const closed = closeAt(a, gens, t, flip);
     if (closed) group = closed;
     else {
       gens.pop();
       notClosed = true;
     }
   }
+  // Products formed above may have grown the store; the next call then starts afresh.
+  a.walk = { ops, index: k, t, group, gens, notClosed, flipAbove: flip.above };
   if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
   group.id ??= `${group.name}:${group.elements!.map((e) => e.key)
     .sort((p, q) => p - q)
@@ -160,7 +180,7 @@ function sortedOperations(a: Analysis): readonly SymOp[] {
  * visits products in the same order whatever t is, so a success with largest residual w decides
  * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
  */
-function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome | null {
+function closeAt(a: Analysis, gens: readonly SymOp[], t: number, flip: { above: number }): ClosureOutcome | null {
   // Look the generator list up in a trie keyed by operation keys (no string building).
   let node = a.closures;
   for (const g of gens) {
@@ -173,8 +193,15 @@ function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome
   }
   const known = node.outcome;
   if (known) {
-    if (known.elements) return known.name && t >= known.worst ? known : null;
-    if (t < known.failsBelow) return null;
+    if (known.elements) {
+      if (known.name && t >= known.worst) return known;
+      if (known.name) flip.above = Math.min(flip.above, known.worst);
+      return null;
+    }
+    if (t < known.failsBelow) {
+      flip.above = Math.min(flip.above, known.failsBelow);
+      return null;
+    }
   }
   const failure = { residual: Infinity };
   const elements = closeUnder(a.store, gens, t, undefined, failure);
@@ -187,5 +214,7 @@ function closeAt(a: Analysis, gens: readonly SymOp[], t: number): ClosureOutcome
     outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, id: null };
   }
   node.outcome = outcome;
-  return outcome.elements && outcome.name ? outcome : null;
+  if (outcome.elements && outcome.name) return outcome;
+  if (!outcome.elements) flip.above = Math.min(flip.above, outcome.failsBelow);
+  return null;
 }
