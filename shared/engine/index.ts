@@ -1,7 +1,8 @@
 /**
  * Pointfold's symmetry engine: perceive the point group of a nearly symmetric structure within a
  * tolerance, build the tolerance ladder, snap onto exact symmetry by projection, orient in the
- * standard frame and report. Pure TypeScript (no Node or DOM). See notes/engine-api.md.
+ * standard frame and report. Pure TypeScript (no Node or DOM). DEVELOPERS.md, "The engine", maps
+ * the steps to the files.
  */
 export { EngineError, engineErrorCodes, isEngineError, type EngineErrorCode } from './errors';
 export { perceive, pointGroupAt, ladder, type Perception } from './perceive';

@@ -76,7 +76,12 @@ export class LineReader {
   /** Number of the line most recently returned by {@link next} (0 before the first). */
   lineNo = 0;
 
-  constructor(private readonly text: string) {}
+  /** Whether the text has any CR at all (most files do not: then no line needs the CR checks). */
+  private readonly hasCr: boolean;
+
+  constructor(private readonly text: string) {
+    this.hasCr = text.includes('\r');
+  }
 
   /** The next line without its line end, or null at the end of the text. */
   next(): string | null {
@@ -92,12 +97,14 @@ export class LineReader {
     }
     this.prevPos = this.pos;
     let line = text.slice(this.pos, end);
-    if (line.endsWith('\r')) line = line.slice(0, -1);
-    // A lone CR (old Mac files) inside what LF splitting took as one line: split there.
-    const cr = line.indexOf('\r');
-    if (cr !== -1) {
-      line = line.slice(0, cr);
-      nextPos = this.pos + cr + 1;
+    if (this.hasCr) {
+      if (line.endsWith('\r')) line = line.slice(0, -1);
+      // A lone CR (old Mac files) inside what LF splitting took as one line: split there.
+      const cr = line.indexOf('\r');
+      if (cr !== -1) {
+        line = line.slice(0, cr);
+        nextPos = this.pos + cr + 1;
+      }
     }
     this.pos = nextPos;
     this.lineNo++;
@@ -137,6 +144,40 @@ export class LineReader {
 }
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** Whether `t` matches {@link NUMBER} exactly, by a scan of its characters (the usual coordinate). */
+function isPlainDecimal(t: string): boolean {
+  const n = t.length;
+  let i = 0;
+  let c = n > 0 ? t.charCodeAt(0) : 0;
+  if (c === 43 || c === 45) c = ++i < n ? t.charCodeAt(i) : 0; // + -
+  let digits = 0;
+  while (c >= 48 && c <= 57) {
+    digits++;
+    c = ++i < n ? t.charCodeAt(i) : 0;
+  }
+  if (c === 46) {
+    // .
+    c = ++i < n ? t.charCodeAt(i) : 0;
+    while (c >= 48 && c <= 57) {
+      digits++;
+      c = ++i < n ? t.charCodeAt(i) : 0;
+    }
+  }
+  if (digits === 0) return false;
+  if (c === 101 || c === 69) {
+    // e E
+    c = ++i < n ? t.charCodeAt(i) : 0;
+    if (c === 43 || c === 45) c = ++i < n ? t.charCodeAt(i) : 0;
+    let exp = 0;
+    while (c >= 48 && c <= 57) {
+      exp++;
+      c = ++i < n ? t.charCodeAt(i) : 0;
+    }
+    if (exp === 0) return false;
+  }
+  return i === n;
+}
 const FORTRAN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)[dD][+-]?\d+$/;
 
 /**
@@ -144,6 +185,7 @@ const FORTRAN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)[dD][+-]?\d+$/;
  * Returns null when the token is not a number at all.
  */
 export function parseNumber(token: string): number | null {
+  if (isPlainDecimal(token)) return Number(token);
   const t = token.trim();
   if (NUMBER.test(t)) return Number(t);
   if (FORTRAN_NUMBER.test(t)) return Number(t.replace(/[dD]/, 'e'));
