@@ -163,6 +163,9 @@ describe('output file names', () => {
     expect(outputFileName('C:\\data\\water.xyz', 0, 1, 'qcschema')).toBe('water.qcschema.json');
     expect(outputFileName('batch.zip/dir/my mol.pdb', 4, 5, 'unique')).toBe('my_mol-5.unique.txt');
     expect(outputFileName('noext', 0, 1, 'mol')).toBe('noext.mol');
+    // A file Pointfold wrote, fed back in: its two-part extension goes as a whole.
+    expect(outputFileName('out/water.qcschema.json', 0, 1, 'xyz')).toBe('water.xyz');
+    expect(outputFileName('out/water.qcschema.json', 0, 1, 'qcschema')).toBe('water.qcschema.json');
     expect(outputFileName('a.b.cml', 0, 1, 'extxyz')).toBe('a.b.extxyz');
   });
 });
