@@ -95,7 +95,18 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
   const inversionResidual = matchOperation(store.ctx, [-1, 0, 0, 0, -1, 0, 0, 0, -1], tol, inv);
   const inversionPerm = Number.isFinite(inversionResidual) ? inv : null;
   if (mol.n > 2 && lineResidual > EXACTLY_LINEAR * Math.max(1, mol.radius)) generateCandidates(store);
-  return { mol, store, lineDirection: line.direction, lineResidual, inversionPerm, inversionResidual, cache: new Map(), closures: { outcome: null, children: new Map() }, sorted: [], walk: null };
+  return {
+    mol,
+    store,
+    lineDirection: line.direction,
+    lineResidual,
+    inversionPerm,
+    inversionResidual,
+    cache: new Map(),
+    closures: { outcome: null, children: new Map() },
+    sorted: [],
+    walk: null,
+  };
 }
 
 /**

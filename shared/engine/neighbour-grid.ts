@@ -102,7 +102,20 @@ function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): Neigh
     return out;
   });
   const none = NO_ATOMS;
-  return { cell, coords, kinds, slotX: none, slotY: none, slotZ: none, slotStart: none, slotEnd: none, mask: 0, atoms: none, byKind, xByKind };
+  return {
+    cell,
+    coords,
+    kinds,
+    slotX: none,
+    slotY: none,
+    slotZ: none,
+    slotStart: none,
+    slotEnd: none,
+    mask: 0,
+    atoms: none,
+    byKind,
+    xByKind,
+  };
 }
 
 /**

@@ -201,7 +201,7 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const fit = order > 0 && order <= 256 ? regularize(mul3(g.matrix, h.matrix), det, order) : null;
   const op: SymOp = fit
     ? makeOp(key, perm, fit.matrix, residualWithPermutation(store.mol.y, fit.matrix, perm), fit.type)
-    : makeOp(key, perm, mul3(g.matrix, h.matrix), Infinity, { det, kind: det > 0 ? 'rotation' : 'improper', order: 0, j: 0, axis: [0, 0, 0] }, '?');
+    : makeOp(key, perm, mul3(g.matrix, h.matrix), Infinity, IMPOSSIBLE[det > 0 ? 0 : 1], '?');
   storeOp(store, op);
   return op;
 }
@@ -215,6 +215,12 @@ function storeOp(store: OpStore, op: SymOp): void {
   store.byKey.set(op.key, op);
   if (store.dense) store.dense[op.key] = op;
 }
+
+/** Types given to impossible products (stored with residual ∞): proper, improper. */
+const IMPOSSIBLE: readonly OpType[] = [
+  { det: 1, kind: 'rotation', order: 0, j: 0, axis: [0, 0, 0] },
+  { det: -1, kind: 'improper', order: 0, j: 0, axis: [0, 0, 0] },
+];
 
 /**
  * The closure of `generators` under composition, as long as every element has residual ≤ `tol`

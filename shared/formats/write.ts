@@ -88,7 +88,8 @@ export function writeStructure(format: OutputFormat, result: StructureResult): s
 export function outputFileName(inputFile: string, frameIndex: number, frameCount: number, format: OutputFormat): string {
   const base = inputFile.split(/[\\/]/).pop() ?? '';
   // Two-part extensions first (a QCSchema file Pointfold wrote is `name.qcschema.json`).
-  const stem = (base.replace(/\.(gz|zip)$/i, '').replace(/\.qcschema\.json$/i, '').replace(/\.[^.]*$/, '') || 'structure').replace(/[^A-Za-z0-9._-]/g, '_');
+  const bare = base.replace(/\.(gz|zip)$/i, '').replace(/\.qcschema\.json$/i, '').replace(/\.[^.]*$/, '');
+  const stem = (bare || 'structure').replace(/[^A-Za-z0-9._-]/g, '_');
   const frame = frameCount > 1 ? `-${String(frameIndex + 1).padStart(String(frameCount).length, '0')}` : '';
   return `${stem}${frame}${OUTPUT_EXTENSIONS[format]}`;
 }
