@@ -31,7 +31,7 @@ export async function runCliBench(count = 5000): Promise<void> {
     writeFileSync(file, toXyz(structures));
 
     spawnSync(process.execPath, [LAUNCH, '--help'], { cwd: ROOT, encoding: 'utf8' }); // builds the bundle if stale
-    let t = performance.now();
+    const t = performance.now();
     spawnSync(process.execPath, [LAUNCH, '--help'], { cwd: ROOT, encoding: 'utf8' });
     const startup = performance.now() - t;
 

@@ -35,10 +35,17 @@ it('completes a batch after its worker is killed mid-way, with one result per st
   const total = 6 * 15;
 
   worker = await startWorkerProcess(env);
-  const before = await until('some results', async () => {
-    const s = await states(db.dataSource, id);
-    return (s.done ?? 0) >= 10 ? s : null;
-  });
+  // Kill while the worker holds claimed structures (status running): those are the jobs whose
+  // re-delivery is under test. Polled often, since a structure is in hand for only milliseconds.
+  const before = await until(
+    'some results and structures in hand',
+    async () => {
+      const s = await states(db.dataSource, id);
+      return (s.done ?? 0) >= 10 && (s.running ?? 0) >= 2 ? s : null;
+    },
+    60_000,
+    5,
+  );
   await stop(worker, 'SIGKILL');
   const atKill = await states(db.dataSource, id);
   expect(atKill.done ?? 0, 'killed before the end').toBeLessThan(total);
