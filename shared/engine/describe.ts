@@ -70,9 +70,13 @@ export function describe(
   const St = transpose3(S);
   const outT = transpose3(toOut);
   const linear = fit.name === 'C∞v' || fit.name === 'D∞h';
+  const identityOut = toOut.every((v, i) => v === (i % 4 === 0 ? 1 : 0));
   const unsorted: OperationJson[] = fit.ideal.elements.map((e, k) => {
     const std = mul3(mul3(S, e.matrix), St);
-    const m = mul3(mul3(toOut, std), outT);
+    const m = identityOut ? std : mul3(mul3(toOut, std), outT);
+    const perm = fit.perms[k];
+    const permutation = new Array<number>(perm.length);
+    for (let i = 0; i < perm.length; i++) permutation[i] = perm[i];
     const l = labels[k];
     const axis = l.kind === 'identity' || l.kind === 'inversion' ? ([0, 0, 0] as Vec3) : canonicalDirection(apply3(toOut, l.axis));
     return {
@@ -82,7 +86,7 @@ export function describe(
       power: l.power,
       axis: cleanZeros(axis) as [number, number, number],
       matrix: cleanZeros(m),
-      permutation: Array.from(fit.perms[k]),
+      permutation,
       residual: residuals[k],
     };
   });
