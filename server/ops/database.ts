@@ -1,9 +1,4 @@
-import type { DataSource } from 'typeorm';
 import { createDataSource } from '../db/data-source';
-import { importOptional } from './optional-import';
-
-type SeedWorkspace = (dataSource: DataSource) => Promise<{ workspaceId: string; users: Record<'owner' | 'chemist' | 'reviewer', string> }>;
-type SeedBatch = (deps: { dataSource: DataSource; workspaceId: string; userId: string }) => Promise<void>;
 
 export interface PrepareResult {
   migrations: string[];
@@ -24,16 +19,13 @@ export async function migrateAndSeed(opts: { databaseUrl: string; seed: boolean;
     const [{ count }] = (await dataSource.query('SELECT count(*)::int AS count FROM users')) as { count: number }[];
     if (count > 0) return { migrations: ran.map((m) => m.name), seeded: false };
 
-    const warn = (line: string) => opts.log(`warning: ${line}`);
-    const seedDemoWorkspace = await importOptional<SeedWorkspace>(new URL('../modules/workspaces/seed.ts', import.meta.url), 'seedDemoWorkspace', warn);
-    if (!seedDemoWorkspace) return { migrations: ran.map((m) => m.name), seeded: false };
+    // Loaded only when seeding (they pull in the engine and the demo files).
+    const { seedDemoWorkspace } = await import('../modules/workspaces/seed');
     const demo = await seedDemoWorkspace(dataSource);
     opts.log('seeded the demo workspace and its accounts');
-    const seedDemoBatch = await importOptional<SeedBatch>(new URL('../modules/batches/seed.ts', import.meta.url), 'seedDemoBatch', warn);
-    if (seedDemoBatch) {
-      await seedDemoBatch({ dataSource, workspaceId: demo.workspaceId, userId: demo.users.chemist });
-      opts.log('seeded a finished demo batch');
-    }
+    const { seedDemoBatch } = await import('../modules/batches/seed');
+    await seedDemoBatch({ dataSource, workspaceId: demo.workspaceId, userId: demo.users.chemist });
+    opts.log('seeded a finished demo batch');
     return { migrations: ran.map((m) => m.name), seeded: true };
   } finally {
     await dataSource.destroy();

@@ -3,11 +3,9 @@
 import { loadConfig } from '../config';
 import { createLogger } from '../logger';
 import { startSmtpInbox } from '../fakes/smtp-inbox';
-import { importOptional } from './optional-import';
+import { startFakeOAuthProvider } from '../fakes/oauth-provider';
 import { watchParent } from './parent-watch';
 import { portOf } from './util';
-
-type StartFakeOAuth = (o: { host?: string; port?: number; callbackHosts?: string[] }) => Promise<{ url: string; close(): Promise<void> }>;
 
 const config = loadConfig();
 const logger = createLogger(config, 'fakes');
@@ -15,26 +13,19 @@ const logger = createLogger(config, 'fakes');
 const inbox = await startSmtpInbox({ host: config.HOST, smtpPort: config.SMTP_PORT, httpPort: portOf(config.DEV_MAILBOX_URL, 80) });
 logger.info({ smtp: `${config.HOST}:${inbox.smtpPort}`, http: inbox.httpUrl }, 'mail inbox listening');
 
-const startFakeOAuthProvider = await importOptional<StartFakeOAuth>(
-  new URL('../fakes/oauth-provider.ts', import.meta.url),
-  'startFakeOAuthProvider',
-  (line) => logger.warn(line),
-);
-const oauth = startFakeOAuthProvider
-  ? await startFakeOAuthProvider({
-      host: new URL(config.OAUTH_BASE_URL).hostname,
-      port: portOf(config.OAUTH_BASE_URL, 80),
-      callbackHosts: [`${config.HOST}:${config.PORT}`, `localhost:${config.PORT}`, `127.0.0.1:${config.PORT}`],
-    })
-  : null;
-if (oauth) logger.info({ url: oauth.url }, 'sign-in provider listening');
+const oauth = await startFakeOAuthProvider({
+  host: new URL(config.OAUTH_BASE_URL).hostname,
+  port: portOf(config.OAUTH_BASE_URL, 80),
+  callbackHosts: [`${config.HOST}:${config.PORT}`, `localhost:${config.PORT}`, `127.0.0.1:${config.PORT}`],
+});
+logger.info({ url: oauth.url }, 'sign-in provider listening');
 
 let closing = false;
 async function shutdown(reason: string) {
   if (closing) return;
   closing = true;
   logger.info({ reason }, 'stopping fakes');
-  await Promise.allSettled([inbox.close(), oauth?.close()]);
+  await Promise.allSettled([inbox.close(), oauth.close()]);
   process.exit(0);
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -1,7 +1,5 @@
 // `npm run bench`: speed figures, printed (never asserted: timings depend on the machine).
-// Each part of the system owns its bench file; a missing one is reported and skipped.
-import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
+// Each part of the system owns its bench file.
 
 const sections = [
   { title: 'Engine (perception, snapping, orientation)', file: './engine.bench.ts', run: 'runEngineBench' },
@@ -13,16 +11,9 @@ let failures = 0;
 for (const section of sections) {
   const url = new URL(section.file, import.meta.url);
   process.stdout.write(`\n== ${section.title} ==\n`);
-  if (!existsSync(fileURLToPath(url))) {
-    process.stdout.write(`(tests/bench/${section.file.slice(2)} not written yet; skipped)\n`);
-    continue;
-  }
   const mod = (await import(url.href)) as Record<string, unknown>;
   const run = mod[section.run];
-  if (typeof run !== 'function') {
-    process.stdout.write(`(tests/bench/${section.file.slice(2)} has no export ${section.run}; skipped)\n`);
-    continue;
-  }
+  if (typeof run !== 'function') throw new Error(`tests/bench/${section.file.slice(2)} has no export ${section.run}`);
   const started = performance.now();
   try {
     await (run as () => Promise<void> | void)();
