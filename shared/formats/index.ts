@@ -1,6 +1,7 @@
 /**
- * Reading and writing structure files: XYZ, extended XYZ, MDL molfile/SD, PDB, CML and QCSchema
- * JSON in; XYZ, extended XYZ, molfile V2000, QCSchema JSON and Pointfold's unique-atoms format out.
+ * Reading and writing structure files: XYZ, extended XYZ, MDL molfile/SD (V2000 and V3000), PDB,
+ * CML and QCSchema JSON in; XYZ, extended XYZ, molfile V2000, QCSchema JSON and Pointfold's
+ * unique-atoms format out.
  * Pure TypeScript (no Node or DOM APIs).
  */
 export * from './types';

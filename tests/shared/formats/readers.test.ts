@@ -151,10 +151,7 @@ describe('molfile and SD', () => {
     expect([m.name, formula(m), m.charge, m.atoms[1].z]).toEqual(['hydroxide', 'OH', -1, 0.97]);
   });
 
-  it('refuses V3000 with a clear message', () => {
-    const v3 = 'x\n\n\n  0  0  0     0  0            999 V3000\nM  V30 BEGIN CTAB\n';
-    expect(messages(readStructures('v3.mol', v3))).toEqual(['v3.mol:4: frame 1: V3000 molfiles are not supported; save as V2000']);
-  });
+  // V3000 records (read since V3000 support was added): tests/shared/formats/molfile-v3000.test.ts.
 });
 
 describe('PDB', () => {
