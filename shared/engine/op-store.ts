@@ -48,16 +48,39 @@ export interface OpStore {
   readonly byKey: Map<number, SymOp>;
   readonly identity: SymOp;
   /**
-   * For small structures (2N² keys ≤ {@link DENSE_KEYS}) the same operations in an array indexed
-   * by key, and a per-key stamp for closure walks: no hashing in the innermost loops.
+   * For small structures (2N² keys ≤ {@link DENSE_KEYS}) the operations are also held in tables
+   * indexed by key, shared by all stores and tagged with this store's id, so the innermost loops
+   * need no hashing (see findOp); 0 when the store is too large for them.
    */
-  readonly dense: (SymOp | undefined)[] | null;
-  readonly stamp: Int32Array | null;
-  generation: number;
+  readonly denseId: number;
 }
 
-/** Largest key space held densely (see OpStore.dense). */
+/** Largest key space held in the shared tables (see OpStore.denseId). */
 const DENSE_KEYS = 1 << 16;
+/** The operation last stored under each key, and the id of the store it belongs to. */
+const denseOps: (SymOp | undefined)[] = new Array<SymOp | undefined>(DENSE_KEYS);
+const denseOwner = new Int32Array(DENSE_KEYS);
+/** Closure-walk marks: a key is in the current walk when its stamp equals the walk's generation. */
+const walkStamp = new Int32Array(DENSE_KEYS);
+let lastStoreId = 0;
+let lastGeneration = 0;
+const WRAP = 1 << 30;
+
+function nextStoreId(): number {
+  if (++lastStoreId >= WRAP) {
+    denseOwner.fill(0);
+    lastStoreId = 1;
+  }
+  return lastStoreId;
+}
+
+function nextGeneration(): number {
+  if (++lastGeneration >= WRAP) {
+    walkStamp.fill(0);
+    lastGeneration = 1;
+  }
+  return lastGeneration;
+}
 
 /** Creates the store with the identity and the anchors (farthest atom; farthest from its line). */
 export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
@@ -96,9 +119,7 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
     a2,
     byKey: new Map(),
     identity: undefined as unknown as SymOp,
-    dense: 2 * n * n <= DENSE_KEYS ? new Array<SymOp | undefined>(2 * n * n) : null,
-    stamp: 2 * n * n <= DENSE_KEYS ? i32(2 * n * n) : null,
-    generation: 0,
+    denseId: 2 * n * n <= DENSE_KEYS ? nextStoreId() : 0,
   };
   const identity = makeOp(keyOf(store, perm, 1), perm, identity3(), 0, { det: 1, kind: 'identity', order: 1, j: 0, axis: [0, 0, 0] });
   (store as { identity: SymOp }).identity = identity;
@@ -208,12 +229,18 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
 
 /** The stored operation with this key, if any. */
 export function findOp(store: OpStore, key: number): SymOp | undefined {
-  return store.dense ? store.dense[key] : store.byKey.get(key);
+  // The shared table holds this store's operation unless another store has written there since
+  // (then the map, which always holds everything, answers).
+  if (store.denseId !== 0 && denseOwner[key] === store.denseId) return denseOps[key];
+  return store.byKey.get(key);
 }
 
 function storeOp(store: OpStore, op: SymOp): void {
   store.byKey.set(op.key, op);
-  if (store.dense) store.dense[op.key] = op;
+  if (store.denseId !== 0) {
+    denseOps[op.key] = op;
+    denseOwner[op.key] = store.denseId;
+  }
 }
 
 /** Types given to impossible products (stored with residual ∞): proper, improper. */
@@ -236,12 +263,12 @@ export function closeUnder(
   failure?: { residual: number },
 ): SymOp[] | null {
   const elements: SymOp[] = [store.identity];
-  // Membership: a stamp per key when the store is dense, else a set.
-  const stamp = store.stamp;
-  const generation = ++store.generation;
-  const seen = stamp ? null : new Set<number>();
-  const mark = (key: number) => (stamp ? (stamp[key] = generation) : seen!.add(key));
-  const has = (key: number) => (stamp ? stamp[key] === generation : seen!.has(key));
+  // Membership: a stamp per key when the store uses the shared tables, else a set.
+  const dense = store.denseId !== 0;
+  const generation = nextGeneration();
+  const seen = dense ? null : new Set<number>();
+  const mark = (key: number) => (dense ? (walkStamp[key] = generation) : seen!.add(key));
+  const has = (key: number) => (dense ? walkStamp[key] === generation : seen!.has(key));
   mark(store.identity.key);
   for (let k = 0; k < elements.length; k++) {
     const e = elements[k];
