@@ -82,6 +82,8 @@ export type BatchSummary = z.infer<typeof batchSummarySchema>;
 export const batchDetailSchema = batchSummarySchema.extend({
   settings: snapSettingsSchema,
   files: z.array(z.object({ name: z.string(), sha256: z.string(), structures: z.number().int() })),
+  /** Export templates the batch renders per structure (its own copies, as they were at upload). */
+  templates: z.array(z.object({ name: z.string(), fileExtension: z.string() })),
 });
 
 export const batchListQuerySchema = paginationQuerySchema.extend({

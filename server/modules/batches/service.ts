@@ -105,11 +105,17 @@ export function toBatchSummary(b: Batch, slug: string, users: Map<string, { id: 
   };
 }
 
-export function toBatchDetail(b: Batch, slug: string, users: Map<string, { id: string; name: string; email: string }>): BatchDetail {
+export function toBatchDetail(
+  b: Batch,
+  slug: string,
+  users: Map<string, { id: string; name: string; email: string }>,
+  templates: readonly { name: string; fileExtension: string }[],
+): BatchDetail {
   return {
     ...toBatchSummary(b, slug, users),
     settings: b.settings,
     files: b.files.map((f) => ({ name: f.name, sha256: f.sha256, structures: f.structures })),
+    templates: templates.map((t) => ({ name: t.name, fileExtension: t.fileExtension })),
   };
 }
 
@@ -166,7 +172,7 @@ export function createBatchService(deps: BatchServiceDeps) {
 
   async function detail(batch: Batch, slug: string): Promise<BatchDetail> {
     const users = await repo.submitters([batch.submitterId, ...(batch.signedOffById ? [batch.signedOffById] : [])]);
-    return toBatchDetail(batch, slug, users);
+    return toBatchDetail(batch, slug, users, await templateRepo.batchCopies(batch.id));
   }
 
   const limits = {

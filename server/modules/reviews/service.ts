@@ -4,6 +4,7 @@ import { DomainError, notFound } from '../../errors';
 import { recordAudit } from '../audit/service';
 import type { BatchRepository } from '../batches/repository';
 import { toBatchDetail } from '../batches/service';
+import { createTemplateRepository } from '../templates/repository';
 import { assertRole, REVIEWERS, UUID_PATTERN, type WorkspaceAccess } from '../workspaces/access';
 import { ReviewEvent } from './entity';
 
@@ -17,6 +18,7 @@ type ReviewEventJson = z.infer<typeof reviewEventSchema>;
 export function createReviewService(deps: { repo: BatchRepository }) {
   const { repo } = deps;
   const ds = repo.dataSource;
+  const templateRepo = createTemplateRepository(ds);
 
   async function scopedBatch(access: WorkspaceAccess, id: string) {
     const batch = UUID_PATTERN.test(id) ? await repo.findBatchInWorkspace(id, access.workspace.id) : null;
@@ -82,7 +84,7 @@ export function createReviewService(deps: { repo: BatchRepository }) {
         await recordAudit(m, { workspaceId: access.workspace.id, actorId: userId, action: 'batch.signed-off', detail: { batchId: batch.id } });
       });
       const signed = (await repo.findBatchInWorkspace(batch.id, access.workspace.id))!;
-      return toBatchDetail(signed, access.workspace.slug, await repo.submitters([signed.submitterId, userId]));
+      return toBatchDetail(signed, access.workspace.slug, await repo.submitters([signed.submitterId, userId]), await templateRepo.batchCopies(signed.id));
     },
 
     /** Every decision on the batch and its sign-off, newest first. */

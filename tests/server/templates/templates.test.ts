@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { exportTemplateSchema } from '@shared/contracts/api';
+import { batchDetailSchema, exportTemplateSchema } from '@shared/contracts/api';
 import type { AtomJson } from '@shared/contracts/structure';
 import { startProcessors } from '../../../worker/processors/index';
 import { buildTestApp, type TestApp } from '../../support/app';
@@ -142,6 +142,9 @@ describe('a batch with an export template', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     batchId = res.body.id;
     expect((await waitForBatch(t, chemist, batchId)).status).toBe('done');
+    // The batch says which decks it renders (its copies, for provenance), on the page's endpoint.
+    const detail = batchDetailSchema.parse((await get(t, chemist, `/api/batches/${batchId}`)).body);
+    expect(detail.templates).toEqual([{ name: 'Single point', fileExtension: 'inp' }]);
 
     const zip = await getBinary(t, chemist, `/api/batches/${batchId}/download`);
     expect(zip.status).toBe(200);

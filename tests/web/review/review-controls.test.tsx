@@ -133,3 +133,22 @@ describe('review controls on the structure page', { timeout: 15_000 }, () => {
     expect(within(review).getByRole('list', { name: /decisions on this structure/i }).textContent).toMatch(/Accepted.*Demo Reviewer/);
   });
 });
+
+describe('batch header', { timeout: 15_000 }, () => {
+  beforeEach(stubResizeObserver);
+  afterEach(() => {
+    cleanup();
+    vi.unstubAllGlobals();
+  });
+
+  it('names the export templates the batch renders, and says nothing when there are none', async () => {
+    batchApi(batchFixture({ templates: [{ name: 'Single point', fileExtension: 'inp' }] }));
+    const { unmount } = renderRoute(batchRoute, { path: 'batches/:batchId', url: '/w/demo/batches/b-1', role: 'chemist' });
+    expect((await screen.findByText(/^decks:/, {}, { timeout: 5000 })).textContent).toBe('decks: Single point (.inp)');
+    unmount();
+    batchApi(batchFixture());
+    renderRoute(batchRoute, { path: 'batches/:batchId', url: '/w/demo/batches/b-1', role: 'chemist' });
+    await screen.findByText(/tolerance/, {}, { timeout: 5000 });
+    expect(screen.queryByText(/^decks:/)).toBeNull();
+  });
+});

@@ -31,6 +31,7 @@ export function batchFixture(patch: Partial<BatchDetail> = {}): BatchDetail {
     signedOffAt: null,
     settings,
     files: [{ name: 'fixture.xyz', sha256: 'f'.repeat(64), structures: 3 }],
+    templates: [],
     ...patch,
   };
 }

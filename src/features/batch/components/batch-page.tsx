@@ -70,6 +70,11 @@ export function BatchPage({ slug, batchId }: { slug: string; batchId: string }) 
             <span className="num text-xs text-ink-faint">
               tolerance {batch.settings.tolerance} Å · budget {batch.settings.displacementBudget} Å
             </span>
+            {batch.templates.length > 0 && (
+              <span className="text-xs text-ink-faint" title="Export templates rendered per structure into the download, as they were at upload">
+                decks: {batch.templates.map((t) => `${t.name} (.${t.fileExtension})`).join(', ')}
+              </span>
+            )}
           </span>
         }
         actions={
