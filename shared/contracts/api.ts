@@ -127,6 +127,21 @@ export const structureListQuerySchema = paginationQuerySchema.extend({
   dir: z.enum(['asc', 'desc']).default('asc'),
 });
 
+/**
+ * GET /api/batches/:id/displacement-histogram: the largest displacement per structure counted
+ * over the whole batch, in the bins of `shared/contracts/histogram.ts` (a value on an edge counts
+ * in the bin above it). `counts[0]` is the underflow bin (< edges[0]), the last is the overflow
+ * bin (≥ the last edge); `counted` structures have a finite value, of `total` in the batch.
+ */
+export const displacementHistogramSchema = z
+  .object({
+    edges: z.array(z.number()).min(1),
+    counts: z.array(z.number().int().nonnegative()),
+    counted: z.number().int().nonnegative(),
+    total: z.number().int().nonnegative(),
+  })
+  .refine((h) => h.counts.length === h.edges.length + 1, { message: 'counts needs one entry per bin (edges + 1)' });
+
 export const reviewEventSchema = z.object({
   id: z.string(),
   structureId: z.string().nullable(),

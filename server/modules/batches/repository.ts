@@ -213,6 +213,30 @@ export function createBatchRepository(dataSource: DataSource) {
       return { rows, total: count };
     },
 
+    /**
+     * The batch's structures counted into displacement bins, in one statement: `width_bucket`
+     * numbers the bins 0 (below the first edge) … edges.length (at or above the last), a value
+     * on an edge going to the bin above it. Only finite values count (NULL for unfinished or
+     * failed structures; NaN and ±Infinity are skipped too).
+     */
+    async displacementHistogram(batchId: string, workspaceId: string, edges: readonly number[]): Promise<{ counts: number[]; counted: number; total: number }> {
+      const rows: { total: number; buckets: [number, number][] }[] = await dataSource.query(
+        `WITH s AS (
+           SELECT max_displacement AS v FROM structures WHERE batch_id = $1 AND workspace_id = $2
+         ), b AS (
+           SELECT width_bucket(v, $3::double precision[]) AS bucket, count(*)::int AS n FROM s
+           WHERE v IS NOT NULL AND v NOT IN ('NaN'::double precision, 'Infinity'::double precision, '-Infinity'::double precision)
+           GROUP BY 1
+         )
+         SELECT (SELECT count(*)::int FROM s) AS total,
+                (SELECT coalesce(jsonb_agg(jsonb_build_array(bucket, n)), '[]'::jsonb) FROM b) AS buckets`,
+        [batchId, workspaceId, edges],
+      );
+      const counts = new Array<number>(edges.length + 1).fill(0);
+      for (const [bucket, n] of rows[0].buckets) counts[bucket] = n;
+      return { counts, counted: counts.reduce((a, n) => a + n, 0), total: rows[0].total };
+    },
+
     async findStructureInWorkspace(id: string, workspaceId: string): Promise<Structure | null> {
       return dataSource.getRepository(Structure).findOneBy({ id, workspaceId });
     },

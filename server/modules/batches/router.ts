@@ -121,6 +121,10 @@ export function createBatchesRouter(deps: AppDeps & { queue?: BatchQueue }): Rou
     res.json(await service.listStructures(req.access!, String(req.params.id), structureListQuerySchema.parse(req.query)));
   });
 
+  router.get('/batches/:id/displacement-histogram', batchMember, async (req, res) => {
+    res.json(await service.displacementHistogram(req.access!, String(req.params.id)));
+  });
+
   router.post('/batches/:id/resnap', batchWriter, async (req, res) => {
     const body = resnapRequestSchema.parse(req.body ?? {});
     res.status(202).json(await service.resnap(req.access!, req.auth!.userId, String(req.params.id), body));

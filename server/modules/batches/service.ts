@@ -4,11 +4,13 @@ import type {
   batchDetailSchema,
   batchListQuerySchema,
   batchSummarySchema,
+  displacementHistogramSchema,
   resnapRequestSchema,
   structureDetailSchema,
   structureListQuerySchema,
   structureRowSchema,
 } from '@shared/contracts/api';
+import { DISPLACEMENT_EDGES } from '@shared/contracts/histogram';
 import { outputFormatSchema, snapSettingsSchema, type OutputFormat, type SnapSettings, type TargetPolicy } from '@shared/contracts/settings';
 import type { StructureResult } from '@shared/contracts/structure';
 import { allowedTargets, isKnownGroup, parseGroupName } from '@shared/engine';
@@ -287,6 +289,13 @@ export function createBatchService(deps: BatchServiceDeps) {
       const group = query.group ? (parseGroupName(query.group) ?? query.group) : undefined;
       const { rows, total } = await repo.listStructures(batch.id, access.workspace.id, { ...query, group });
       return { items: rows.map(toStructureRow), total, page: query.page, pageSize: query.pageSize };
+    },
+
+    /** The whole batch's largest displacements in the shared log bins (counted in SQL). */
+    async displacementHistogram(access: WorkspaceAccess, batchId: string): Promise<z.infer<typeof displacementHistogramSchema>> {
+      const batch = await scopedBatch(access, batchId);
+      const { counts, counted, total } = await repo.displacementHistogram(batch.id, access.workspace.id, DISPLACEMENT_EDGES);
+      return { edges: [...DISPLACEMENT_EDGES], counts, counted, total };
     },
 
     async getStructure(access: WorkspaceAccess, id: string): Promise<StructureDetail> {
