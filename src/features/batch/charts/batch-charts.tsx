@@ -4,7 +4,7 @@ import { Spinner } from '@/components/ui/spinner';
 import { InlineError } from '@/components/ui/states';
 import { formatAngstrom, formatCount } from '@/lib/format';
 import type { BatchDetail } from '../api/get-batch';
-import { SAMPLE_LIMIT, useDisplacementSample } from '../api/get-displacement-sample';
+import { useDisplacementHistogram } from '../api/get-displacement-histogram';
 import { displacementHistogram } from './histogram';
 
 // Palette values (src/styles/index.css); recharts draws SVG attributes, not classes.
@@ -78,21 +78,24 @@ function GroupsChart({ batch }: { batch: BatchDetail }) {
 }
 
 function DisplacementChart({ slug, batch }: { slug: string; batch: BatchDetail }) {
-  const sample = useDisplacementSample(slug, batch.id, batch.status);
+  const histogram = useDisplacementHistogram(slug, batch.id, batch.status);
   const budget = batch.settings.displacementBudget;
-  const bins = sample.data ? displacementHistogram(sample.data.values, budget) : [];
-  const partial = sample.data && sample.data.total > sample.data.values.length;
-  const note = partial
-    ? `first ${formatCount(SAMPLE_LIMIT)} of ${formatCount(sample.data!.total)} structures`
-    : `budget ${formatAngstrom(budget, 3)} (bin in ochre)`;
+  const bins = histogram.data ? displacementHistogram(histogram.data, budget) : [];
+  // Unfinished and failed structures have no displacement; say so when the bars leave some out.
+  const missing = histogram.data ? histogram.data.total - histogram.data.counted : 0;
+  const budgetNote = `budget ${formatAngstrom(budget, 3)} (bin in ochre)`;
+  const note =
+    histogram.data && missing > 0
+      ? `${formatCount(histogram.data.counted)} of ${formatCount(histogram.data.total)} structures have a value · ${budgetNote}`
+      : budgetNote;
   return (
     <ChartCard title="Largest displacement per structure (Å, log bins)" note={note}>
-      {sample.isPending ? (
+      {histogram.isPending ? (
         <div className="flex h-52 items-center justify-center">
           <Spinner label="Reading displacements" />
         </div>
-      ) : sample.error ? (
-        <InlineError>Displacements could not be read: {sample.error.message}</InlineError>
+      ) : histogram.error ? (
+        <InlineError>Displacements could not be read: {histogram.error.message}</InlineError>
       ) : bins.every((b) => b.count === 0) ? (
         <p className="py-10 text-center text-sm text-ink-soft">No structure has finished yet.</p>
       ) : (
