@@ -19,10 +19,3 @@ export function logEdges(firstDecade = -5, lastDecade = 0): number[] {
 
 /** The edges every displacement histogram uses: 1e-5 … 1 Å (16 edges, so 17 bins). */
 export const DISPLACEMENT_EDGES: readonly number[] = Object.freeze(logEdges(-5, 0));
-
-/** The bin of a finite value: 0 (underflow) … edges.length (overflow), edges in ascending order. */
-export function binIndex(value: number, edges: readonly number[] = DISPLACEMENT_EDGES): number {
-  let i = 0;
-  while (i < edges.length && value >= edges[i]) i += 1;
-  return i;
-}
