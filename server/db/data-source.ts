@@ -16,6 +16,8 @@ export function createDataSource(databaseUrl: string): DataSource {
     synchronize: false,
     migrationsRun: false,
     logging: ['error'],
-    extra: { max: 10, connectionTimeoutMillis: 5000 },
+    // keepAlive: a connection whose server vanished without closing it (a restart, a dropped
+    // network) errors out instead of leaving a query waiting on it indefinitely.
+    extra: { max: 10, connectionTimeoutMillis: 5000, keepAlive: true },
   });
 }

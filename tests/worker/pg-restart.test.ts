@@ -7,7 +7,7 @@ import { afterAll, beforeAll, expect, it } from 'vitest';
 import { createDataSource } from '../../server/db/data-source';
 import { buildTestApp, type TestApp } from '../support/app';
 import { member, upload, waitForBatch } from '../server/batches/support';
-import { fragmentCopies, freePort, startWorkerProcess, states, stop, until } from './support/harness';
+import { fragmentCopies, freePort, startWorkerProcess, states, stop, until, workerLogTail } from './support/harness';
 
 /*
  * PostgreSQL restarted in the middle of a batch: statements that fail while it is away throw,
@@ -81,7 +81,11 @@ it.skipIf(!canRun)('completes a batch across a PostgreSQL restart', async () => 
   await new Promise((r) => setTimeout(r, 2000)); // away for a while, with the worker mid-batch
   pgCtl('-o', `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off`, 'start');
 
-  const batch = await waitForBatch(t!, chemist, id, 150_000);
+  const batch = await waitForBatch(t!, chemist, id, 150_000).catch(async (e: Error) => {
+    // Say where the structures are and what the worker last said: a stall here is rare and
+    // otherwise leaves nothing to go on.
+    throw new Error(`${e.message}\nstructures by state: ${JSON.stringify(await states(ds!, id))}\nworker log tail:\n${workerLogTail(worker)}`);
+  });
   expect(batch.status).toBe('done');
   expect(batch.counts).toMatchObject({ total, done: total, error: 0 });
   const rows = await ds!.query(`SELECT count(*)::int AS n, count(result)::int AS with_result FROM structures WHERE batch_id = $1`, [id]);

@@ -6,6 +6,15 @@ import type { DataSource } from 'typeorm';
 
 const repoRoot = fileURLToPath(new URL('../../..', import.meta.url));
 
+/** The last lines each worker process wrote (stdout and stderr), for failure messages. */
+const workerLogs = new WeakMap<ChildProcess, string[]>();
+
+/** The last `lines` lines a worker started by {@link startWorkerProcess} wrote, for a failure message. */
+export function workerLogTail(child: ChildProcess | undefined, lines = 25): string {
+  const log = child ? workerLogs.get(child) : undefined;
+  return log && log.length > 0 ? log.slice(-lines).join('\n') : '(no worker output)';
+}
+
 /** Starts tests/worker/support/run-worker.ts in its own process; resolves once it is ready. */
 export async function startWorkerProcess(env: Record<string, string>): Promise<ChildProcess> {
   const child = spawn(process.execPath, ['--import', 'tsx', 'tests/worker/support/run-worker.ts'], {
@@ -14,8 +23,16 @@ export async function startWorkerProcess(env: Record<string, string>): Promise<C
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let stderr = '';
+  const log: string[] = [];
+  workerLogs.set(child, log);
+  const keep = (c: Buffer) => {
+    for (const line of c.toString().split('\n')) if (line.trim() !== '') log.push(line.slice(0, 400));
+    if (log.length > 400) log.splice(0, log.length - 200);
+  };
+  child.stdout!.on('data', keep);
   child.stderr!.on('data', (c: Buffer) => {
     stderr += c.toString();
+    keep(c);
   });
   await new Promise<void>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`worker did not start: ${stderr}`)), 30_000);
