@@ -9,6 +9,7 @@ import {
   failure,
   multiplicityFrom,
   tooManyAtoms,
+  splitFields,
   type ReadOptions,
 } from './common';
 import type { ReadResult } from './types';
@@ -113,7 +114,7 @@ export function readCml(file: string, text: string, options: ReadOptions = {}): 
               const a = tok.attrs;
               if (a.elementType != null) {
                 // Array form: parallel white-space separated lists.
-                const split = (v: string | undefined) => (v == null ? undefined : v.trim().split(/\s+/));
+                const split = (v: string | undefined) => (v == null ? undefined : splitFields(v));
                 const els = split(a.elementType)!;
                 const [xs, ys, zs, fcs, ids] = [split(a.x3), split(a.y3), split(a.z3), split(a.formalCharge), split(a.atomID)];
                 for (const list of [xs, ys, zs, fcs]) {

@@ -13,6 +13,7 @@ import {
   parseInteger,
   quote,
   tooManyAtoms,
+  splitFields,
   type ReadOptions,
 } from './common';
 import { fixed } from './xyz';
@@ -78,7 +79,7 @@ function readV2000(counts: string, countsNo: number, rec: RecordReader, maxAtoms
   let nBonds = parseInteger(counts.slice(3, 6));
   if (nAtoms == null || nBonds == null) {
     // Some writers do not keep the fixed columns; accept white-space separated counts.
-    const t = counts.trim().split(/\s+/);
+    const t = splitFields(counts);
     nAtoms = parseInteger(t[0] ?? '');
     nBonds = parseInteger(t[1] ?? '');
   }
@@ -101,7 +102,7 @@ function readV2000(counts: string, countsNo: number, rec: RecordReader, maxAtoms
       atom = atomFrom(sym, t.slice(0, 10), t.slice(10, 20), t.slice(20, 30), i + 1, rec.no);
       code = parseInteger(t.slice(36, 39)) ?? 0;
     } else {
-      const tok = t.trim().split(/\s+/);
+      const tok = splitFields(t);
       if (tok.length < 4) throw new FrameError(rec.no, `atom ${i + 1}: expected x y z element, found ${quote(t)}`);
       atom = atomFrom(tok[3], tok[0], tok[1], tok[2], i + 1, rec.no);
       code = parseInteger(tok[5] ?? '0') ?? 0;
@@ -120,7 +121,7 @@ function readV2000(counts: string, countsNo: number, rec: RecordReader, maxAtoms
   let chgSum: number | null = null;
   for (let t = rec.next(); t !== null && !/^M {2}END/.test(t); t = rec.next()) {
     if (!/^M {2}CHG/.test(t)) continue;
-    const tok = t.slice(6).trim().split(/\s+/).map((v) => parseInteger(v));
+    const tok = splitFields(t.slice(6)).map((v) => parseInteger(v));
     const n = tok[0];
     if (n == null || tok.length < 1 + 2 * n || tok.some((v) => v == null)) {
       throw new FrameError(rec.no, `M  CHG line is malformed: ${quote(t)}`);
