@@ -32,8 +32,7 @@ export interface Perception {
  * 'knife-edge', 'close-contact'. @throws EngineError for unusable input.
  */
 export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: number }): Perception {
-  const tol = options?.tolerance ?? 0.01;
-  if (!(tol > 0) || tol > 1) throw new EngineError('bad-settings', `tolerance ${tol} Å is outside (0, 1] Å`);
+  const tol = checkedTolerance(options?.tolerance ?? 0.01);
   const mol = prepareMolecule(atoms);
   const a = analyse(mol, 2 * tol);
   const found = groupAt(a, tol);
@@ -60,9 +59,14 @@ export function perceive(atoms: readonly AtomJson[], options?: { tolerance?: num
  * needs only this). @throws EngineError for unusable input.
  */
 export function pointGroupAt(atoms: readonly AtomJson[], tolerance: number): string {
-  if (!(tolerance > 0) || tolerance > 1) throw new EngineError('bad-settings', `tolerance ${tolerance} Å is outside (0, 1] Å`);
-  const mol = prepareMolecule(atoms);
-  return groupAt(analyse(mol, 2 * tolerance), tolerance).name;
+  const tol = checkedTolerance(tolerance);
+  return groupAt(analyse(prepareMolecule(atoms), 2 * tol), tol).name;
+}
+
+/** A perception tolerance (Å), which must lie in (0, 1]. @throws EngineError('bad-settings'). */
+function checkedTolerance(tol: number): number {
+  if (!(tol > 0) || tol > 1) throw new EngineError('bad-settings', `tolerance ${tol} Å is outside (0, 1] Å`);
+  return tol;
 }
 
 /**
