@@ -4,6 +4,7 @@ import {
   dot3,
   improper3,
   inversion3,
+  norm3,
   normalize3,
   reflection3,
   rotation3,
@@ -91,7 +92,7 @@ export function generateCandidates(store: OpStore): void {
   const pairShells: number[][] = [];
   // Shells from the smallest: axial ones only add directions; the first non-axial shell (and a
   // second one when the first has at most 3 atoms) supplies the pair-derived candidates.
-  for (const shell of shells) {
+  for (const shell of shells.list) {
     const r0 = atomVector(y, shell[0]);
     if (normalize3(r0, tol) === null) continue; // atom at the centre
     highOrderAxes.push(r0);
@@ -100,11 +101,11 @@ export function generateCandidates(store: OpStore): void {
     if ((pairShells.length >= 1 && pairShells[0].length > 3) || pairShells.length >= 2 || highOrderAxes.length > 40) break;
   }
 
-  const ringAtoms = n <= 4000 ? null : shells.slice(0, 8).flat();
+  const ringAtoms = n <= 4000 ? null : shells.list.slice(0, 8).flat();
   for (const a of highOrderAxes) {
     const d = normalize3(a);
     if (!d || !once(99, d)) continue;
-    testAxis(d, possibleOrders(store, d, ringAtoms));
+    testAxis(d, possibleOrders(store, d, shells, ringAtoms));
     testMirror(d);
   }
   // Close what was found so far: operations that are products of these are then recognised
@@ -170,15 +171,41 @@ function atomVector(y: Float64Array, i: number): Vec3 {
   return [y[3 * i], y[3 * i + 1], y[3 * i + 2]];
 }
 
+/** Shells of a structure (see {@link buildShells}) and each atom's shell index. */
+interface Shells {
+  /** Atom indices of each shell, smallest shell first. */
+  readonly list: number[][];
+  /** Index into `list` of each atom's shell. */
+  readonly shellOf: Int32Array;
+}
+
 /**
  * Shells: atoms of one element whose distances from the centre chain together within `tol`,
  * ordered by size (smallest first), then by radius (largest first), then by first atom index.
+ * Every operation matched at `tol` maps each shell onto itself (an atom's partner lies within
+ * `tol` of its image, whose distance from the centre is the atom's own).
  */
-function buildShells(store: OpStore): number[][] {
+function buildShells(store: OpStore): Shells {
   const { y, n, kinds } = store.mol;
   const r = f64(n);
-  for (let i = 0; i < n; i++) r[i] = Math.hypot(y[3 * i], y[3 * i + 1], y[3 * i + 2]);
-  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => kinds[a] - kinds[b] || r[a] - r[b] || a - b);
+  for (let i = 0; i < n; i++) r[i] = Math.sqrt(y[3 * i] ** 2 + y[3 * i + 1] ** 2 + y[3 * i + 2] ** 2);
+  // Atoms by element, then distance, then index (insertion sort for small structures: a sort
+  // with a comparator costs more than the whole shell pass there).
+  const order = i32(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  if (n <= 128) {
+    for (let i = 1; i < n; i++) {
+      const v = order[i];
+      const kv = kinds[v];
+      const rv = r[v];
+      let p = i - 1;
+      while (p >= 0 && (kinds[order[p]] > kv || (kinds[order[p]] === kv && r[order[p]] > rv))) {
+        order[p + 1] = order[p];
+        p--;
+      }
+      order[p + 1] = v;
+    }
+  } else order.sort((a, b) => kinds[a] - kinds[b] || r[a] - r[b] || a - b);
   const shells: number[][] = [];
   let cur: number[] = [];
   for (let k = 0; k < n; k++) {
@@ -192,7 +219,10 @@ function buildShells(store: OpStore): number[][] {
   }
   if (cur.length) shells.push(cur);
   const rad = (s: number[]) => r[s[0]];
-  return shells.sort((a, b) => a.length - b.length || rad(b) - rad(a) || a[0] - b[0]);
+  shells.sort((a, b) => a.length - b.length || rad(b) - rad(a) || a[0] - b[0]);
+  const shellOf = i32(n);
+  for (let k = 0; k < shells.length; k++) for (const i of shells[k]) shellOf[i] = k;
+  return { list: shells, shellOf };
 }
 
 /**
@@ -207,7 +237,7 @@ function referenceAtoms(y: Float64Array, shell: readonly number[], tol: number):
   let i1 = -1;
   let best = 2 * tol;
   for (const j of shell) {
-    const d = Math.hypot(...cross3(u, atomVector(y, j)));
+    const d = norm3(cross3(u, atomVector(y, j)));
     if (d > best) {
       best = d;
       i1 = j;
@@ -222,12 +252,34 @@ export const MAX_AXIS_ORDER = 32;
 /**
  * Orders n ≥ 2 a rotation about unit axis `d` could have: n must divide the number of off-axis
  * atoms of each element in each ring (atoms at the same height along `d`, chained within tol).
- * With no off-axis atom at all (a linear arrangement) only 2 is proposed.
+ * With no off-axis atom at all (a linear arrangement) only 2 is proposed. The rings are found
+ * by sorting heights; first, the same divisibility is required of each shell's off-axis atoms
+ * (O(N), no sort), which already rules out most directions of low-symmetry structures.
  */
-function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number[] {
-  const { y, kinds } = store.mol;
+function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[] | null): number[] {
+  const { y, kinds, n } = store.mol;
   const tol = store.tol;
-  const count = atoms ? atoms.length : store.mol.n;
+  // Off-axis atoms per shell: every orbit of an off-axis atom under Cₙ has n atoms of one shell.
+  const shellCount = shells.list.length;
+  if (offAxisCounts.length < shellCount) offAxisCounts = new Int32Array(Math.max(shellCount, 2 * offAxisCounts.length));
+  const perShell = offAxisCounts;
+  perShell.fill(0, 0, shellCount);
+  let offAxis = 0;
+  for (let i = 0; i < n; i++) {
+    const x = y[3 * i];
+    const v = y[3 * i + 1];
+    const z = y[3 * i + 2];
+    const h = x * d[0] + v * d[1] + z * d[2];
+    if (x * x + v * v + z * z - h * h > tol * tol) {
+      perShell[shells.shellOf[i]]++;
+      offAxis++;
+    }
+  }
+  if (offAxis === 0) return [2];
+  let shellGcd = 0;
+  for (let k = 0; k < shellCount && shellGcd !== 1; k++) if (perShell[k] > 0) shellGcd = gcdInt(shellGcd, perShell[k]);
+  if (shellGcd === 1) return [];
+  const count = atoms ? atoms.length : n;
   // One sortable number per off-axis atom: element id · 1e7 + height (|height| < 1e6 Å).
   if (orderKeys.length < count) orderKeys = new Float64Array(Math.max(count, 2 * orderKeys.length));
   const keys = orderKeys;
@@ -255,6 +307,9 @@ function possibleOrders(store: OpStore, d: Vec3, atoms: number[] | null): number
   for (let n = 2; n <= Math.min(g, MAX_AXIS_ORDER); n++) if (g % n === 0) out.push(n);
   return out;
 }
+
+/** Scratch for the per-shell counts of {@link possibleOrders}. */
+let offAxisCounts = new Int32Array(64);
 
 /** Scratch for {@link possibleOrders} (the engine is synchronous, so one buffer suffices). */
 let orderKeys = new Float64Array(256);

@@ -34,24 +34,17 @@ export function equivalenceClasses(n: number, perms: readonly Int32Array[]): num
   // The orbit of atom i is {π(i) : π in the group}: every permutation of the group is listed, so
   // one pass from each not yet classified atom (in index order) finds its whole orbit.
   const classOf = i32(n).fill(-1);
-  const classes: number[][] = [];
+  let count = 0;
   for (let i = 0; i < n; i++) {
     if (classOf[i] >= 0) continue;
-    const k = classes.length;
-    const members: number[] = [];
-    for (const p of perms) {
-      const j = p[i];
-      if (classOf[j] < 0) {
-        classOf[j] = k;
-        members.push(j);
-      }
-    }
-    if (classOf[i] < 0) {
-      classOf[i] = k;
-      members.push(i);
-    }
-    classes.push(members.sort((a, b) => a - b));
+    const k = count++;
+    classOf[i] = k;
+    for (const p of perms) if (classOf[p[i]] < 0) classOf[p[i]] = k;
   }
+  // Members in index order, so each orbit comes out sorted without a sort.
+  const classes: number[][] = [];
+  for (let k = 0; k < count; k++) classes.push([]);
+  for (let i = 0; i < n; i++) classes[classOf[i]].push(i);
   return classes;
 }
 

@@ -47,7 +47,9 @@ export function correlation(
 
 /** The proper rotation R maximising Σ qᵢ·(R pᵢ) for the correlation S = Σ pᵢ qᵢᵀ (Horn 1987). */
 export function rotationFromCorrelation(s: readonly number[]): Mat3 {
-  const [sxx, sxy, sxz, syx, syy, syz, szx, szy, szz] = s;
+  const sxx = s[0], sxy = s[1], sxz = s[2];
+  const syx = s[3], syy = s[4], syz = s[5];
+  const szx = s[6], szy = s[7], szz = s[8];
   const n = [
     sxx + syy + szz, syz - szy, szx - sxz, sxy - syx,
     syz - szy, sxx - syy - szz, sxy + syx, szx + sxz,
@@ -56,7 +58,7 @@ export function rotationFromCorrelation(s: readonly number[]): Mat3 {
   ];
   const q = [0, 0, 0, 0];
   topEigenvector(n, 4, q);
-  const [q0, q1, q2, q3] = q;
+  const q0 = q[0], q1 = q[1], q2 = q[2], q3 = q[3];
   return [
     q0 * q0 + q1 * q1 - q2 * q2 - q3 * q3, 2 * (q1 * q2 - q0 * q3), 2 * (q1 * q3 + q0 * q2),
     2 * (q1 * q2 + q0 * q3), q0 * q0 - q1 * q1 + q2 * q2 - q3 * q3, 2 * (q2 * q3 - q0 * q1),

@@ -8,13 +8,15 @@ export const LADDER_MAX = 0.3;
 export const LADDER_RUNGS = 24;
 
 /** The log-spaced tolerances 1e-4 … 0.3 Å (24 rungs, both ends included). */
-export function ladderGrid(): number[] {
-  const a = Math.log(LADDER_MIN);
-  const b = Math.log(LADDER_MAX);
-  return Array.from({ length: LADDER_RUNGS }, (_, k) =>
-    k === LADDER_RUNGS - 1 ? LADDER_MAX : Math.exp(a + ((b - a) * k) / (LADDER_RUNGS - 1)),
-  );
+export function ladderGrid(): readonly number[] {
+  return GRID;
 }
+
+const GRID: readonly number[] = Object.freeze(
+  Array.from({ length: LADDER_RUNGS }, (_, k) =>
+    k === LADDER_RUNGS - 1 ? LADDER_MAX : Math.exp(Math.log(LADDER_MIN) + ((Math.log(LADDER_MAX) - Math.log(LADDER_MIN)) * k) / (LADDER_RUNGS - 1)),
+  ),
+);
 
 /** One merged range of the ladder: `found` is the group for tolerances in [from, to). */
 export interface LadderRange {

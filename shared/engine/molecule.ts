@@ -105,7 +105,7 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
   let radius = 0;
   for (let i = 0; i < n; i++) {
     for (let d = 0; d < 3; d++) y[3 * i + d] = x[3 * i + d] - centre[d];
-    radius = Math.max(radius, Math.hypot(y[3 * i], y[3 * i + 1], y[3 * i + 2]));
+    radius = Math.max(radius, Math.sqrt(y[3 * i] ** 2 + y[3 * i + 1] ** 2 + y[3 * i + 2] ** 2));
   }
   const closeContact = findCloseContact(y, kinds);
   return { n, symbols, kinds, kindSymbols, masses, atomicNumbers: numbers, centre, y, radius, closeContact };

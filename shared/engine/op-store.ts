@@ -95,7 +95,7 @@ export function createOpStore(mol: PreparedMolecule, tol: number): OpStore {
     }
   }
   const u = [y[3 * a1], y[3 * a1 + 1], y[3 * a1 + 2]];
-  const un = Math.hypot(u[0], u[1], u[2]) || 1;
+  const un = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]) || 1;
   let a2 = a1;
   let bestD = -1;
   for (let i = 0; i < n; i++) {

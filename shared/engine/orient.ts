@@ -1,5 +1,5 @@
 import { covalentRadius } from '../elements';
-import { f64 } from './arena';
+import { f64, i32 } from './arena';
 import { groupFamily } from './groups';
 import { principalAxes } from './inertia';
 import { identity3, mul3, rotation3, type Mat3 } from './mat3';
@@ -150,7 +150,7 @@ function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule, orbitOf:
   let bestRho = -1;
   const n = mol.n;
   for (let i = 0; i < n; i++) {
-    const rho = Math.hypot(W[3 * i], W[3 * i + 1]);
+    const rho = Math.sqrt(W[3 * i] ** 2 + W[3 * i + 1] ** 2);
     if (rho <= EPS) continue;
     const m = mol.masses[i];
     if (m > bestMass + 1e-9 || (Math.abs(m - bestMass) <= 1e-9 && rho > bestRho + EPS)) {
@@ -162,7 +162,7 @@ function referenceAtomRotations(W: Float64Array, mol: PreparedMolecule, orbitOf:
   const out: Mat3[] = [];
   const orbits = new Set<number>();
   for (let i = 0; i < n; i++) {
-    const rho = Math.hypot(W[3 * i], W[3 * i + 1]);
+    const rho = Math.sqrt(W[3 * i] ** 2 + W[3 * i + 1] ** 2);
     if (Math.abs(mol.masses[i] - bestMass) <= 1e-9 && Math.abs(rho - bestRho) <= EPS && !orbits.has(orbitOf[i])) {
       orbits.add(orbitOf[i]);
       out.push(rz(-Math.atan2(W[3 * i + 1], W[3 * i])));
@@ -309,20 +309,37 @@ function sortedTriples(S: Mat3, atoms: readonly number[], W: Float64Array): Floa
     t[3 * a + 1] = S[0] * p + S[1] * q + S[2] * r;
     t[3 * a + 2] = S[3] * p + S[4] * q + S[5] * r;
   }
-  const idx = Array.from({ length: k }, (_, a) => a).sort((a, b) => {
-    for (let d = 0; d < 3; d++) {
-      const diff = t[3 * b + d] - t[3 * a + d];
-      if (Math.abs(diff) > EPS) return diff;
+  const idx = i32(k);
+  for (let a = 0; a < k; a++) idx[a] = a;
+  if (k <= 64) {
+    // Insertion sort (stable, like the library sort) without a comparator call per step.
+    for (let a = 1; a < k; a++) {
+      const v = idx[a];
+      let p = a - 1;
+      while (p >= 0 && tripleAfter(t, idx[p], v)) {
+        idx[p + 1] = idx[p];
+        p--;
+      }
+      idx[p + 1] = v;
     }
-    return 0;
-  });
+  } else idx.sort((a, b) => (tripleAfter(t, a, b) ? 1 : tripleAfter(t, b, a) ? -1 : 0));
   const out = f64(3 * k);
-  idx.forEach((a, pos) => {
+  for (let pos = 0; pos < k; pos++) {
+    const a = idx[pos];
     out[3 * pos] = t[3 * a];
     out[3 * pos + 1] = t[3 * a + 1];
     out[3 * pos + 2] = t[3 * a + 2];
-  });
+  }
   return out;
+}
+
+/** Whether triple a comes after triple b in descending (z, x, y) order (values within EPS equal). */
+function tripleAfter(t: Float64Array, a: number, b: number): boolean {
+  for (let d = 0; d < 3; d++) {
+    const diff = t[3 * b + d] - t[3 * a + d];
+    if (Math.abs(diff) > EPS) return diff > 0;
+  }
+  return false;
 }
 
 function compareKeys(a: Float64Array, b: Float64Array): number {

@@ -79,11 +79,22 @@ function load(a: ArrayLike<number>, n: number): void {
 export function symmetricEigen(a: ArrayLike<number>, n: number): SymmetricEigen {
   load(a, n);
   jacobi(n);
-  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => M[i * n + i] - M[j * n + j]);
-  return {
-    values: order.map((i) => M[i * n + i]),
-    vectors: order.map((i) => Array.from({ length: n }, (_, k) => V[k * n + i])),
-  };
+  // Indices by ascending eigenvalue (insertion sort: n ≤ 8; ties keep index order).
+  const order: number[] = [];
+  for (let i = 0; i < n; i++) {
+    let p = order.length;
+    while (p > 0 && M[order[p - 1] * n + order[p - 1]] > M[i * n + i]) p--;
+    order.splice(p, 0, i);
+  }
+  const values: number[] = [];
+  const vectors: number[][] = [];
+  for (const i of order) {
+    values.push(M[i * n + i]);
+    const v: number[] = [];
+    for (let k = 0; k < n; k++) v.push(V[k * n + i]);
+    vectors.push(v);
+  }
+  return { values, vectors };
 }
 
 /** The unit eigenvector of the largest eigenvalue of the symmetric n×n matrix `a`, written into `out`. */
