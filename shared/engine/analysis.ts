@@ -38,6 +38,8 @@ export interface Analysis {
     t: number;
     group: ClosureOutcome | null;
     gens: SymOp[];
+    /** The closure trie's node for `gens`. */
+    node: ClosureNode;
     notClosed: boolean;
     flipAbove: number;
   } | null;
@@ -152,6 +154,8 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   const resume = last !== null && last.ops === ops && last.t <= t && t < last.flipAbove;
   let group: ClosureOutcome | null = resume ? last.group : null;
   const gens: SymOp[] = resume ? [...last.gens] : [];
+  // The trie node of the accepted generators: each step looks up one child, not the whole path.
+  let node = resume ? last.node : a.closures;
   let notClosed = resume ? last.notClosed : false;
   const flip = { above: resume ? last.flipAbove : Infinity };
   let k = resume ? last.index : 0;
@@ -160,15 +164,22 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
     if (!(op.residual <= t)) break;
     if (op === store.identity || (group && group.keys!.has(op.key))) continue;
     gens.push(op);
-    const closed = closeAt(a, gens, t, flip);
-    if (closed) group = closed;
-    else {
+    let child = node.children.get(op.key);
+    if (!child) {
+      child = { outcome: null, children: new Map() };
+      node.children.set(op.key, child);
+    }
+    const closed = closeAt(a, child, gens, t, flip);
+    if (closed) {
+      group = closed;
+      node = child;
+    } else {
       gens.pop();
       notClosed = true;
     }
   }
   // Products formed above may have grown the store; the next call then starts afresh.
-  a.walk = { ops, index: k, t, group, gens, notClosed, flipAbove: flip.above };
+  a.walk = { ops, index: k, t, group, gens, node, notClosed, flipAbove: flip.above };
   if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
   group.id ??= `${group.name}:${group.elements!.map((e) => e.key)
     .sort((p, q) => p - q)
@@ -186,22 +197,14 @@ function sortedOperations(a: Analysis): readonly SymOp[] {
 }
 
 /**
- * closeUnder(store, gens, t) and its group name, memoised across tolerances: the ladder asks for
+ * closeUnder(store, gens, t) and its group name, memoised across tolerances in the trie node of
+ * `gens`: the ladder asks for
  * the same generator sets at many tolerances. Gives exactly what closeUnder would: the closure
  * visits products in the same order whatever t is, so a success with largest residual w decides
  * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
  */
-function closeAt(a: Analysis, gens: readonly SymOp[], t: number, flip: { above: number }): ClosureOutcome | null {
-  // Look the generator list up in a trie keyed by operation keys (no string building).
-  let node = a.closures;
-  for (const g of gens) {
-    let child = node.children.get(g.key);
-    if (!child) {
-      child = { outcome: null, children: new Map() };
-      node.children.set(g.key, child);
-    }
-    node = child;
-  }
+function closeAt(a: Analysis, node: ClosureNode, gens: readonly SymOp[], t: number, flip: { above: number }): ClosureOutcome | null {
+  // `node` is the generator list's node in a trie keyed by operation keys (no string building).
   const known = node.outcome;
   if (known) {
     if (known.elements) {
