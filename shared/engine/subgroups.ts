@@ -6,15 +6,25 @@ import { labelElements } from './labels';
 /** Names of D2h and its subgroups: the groups quantum-chemistry codes compute in. */
 export const ABELIAN_D2H_FAMILY = ['D2h', 'D2', 'C2v', 'C2h', 'C2', 'Cs', 'Ci', 'C1'] as const;
 
-/** Per element: does its axis / normal lie along a standard-frame coordinate axis (S: canonical → standard)? */
-function alignedElements(ideal: IdealGroup, S: Mat3): boolean[] {
+/**
+ * Per element, as a string of '1'/'0': does its axis / normal lie along a standard-frame
+ * coordinate axis (S: canonical → standard)? Only involutions are asked about.
+ */
+function alignedElements(ideal: IdealGroup, S: Mat3): string {
   const St = transpose3(S);
-  return ideal.elements.map((e) => {
-    if (e.kind === 'identity' || e.kind === 'inversion') return true;
+  let out = '';
+  for (const e of ideal.elements) {
+    if (e.kind === 'identity' || e.kind === 'inversion') {
+      out += '1';
+      continue;
+    }
     const m = mul3(mul3(S, e.matrix), St);
     // An involution along a coordinate axis is diagonal (entries ±1).
-    return [1, 2, 3, 5, 6, 7].every((i) => Math.abs(m[i]) < 1e-9);
-  });
+    const diagonal =
+      Math.abs(m[1]) < 1e-9 && Math.abs(m[2]) < 1e-9 && Math.abs(m[3]) < 1e-9 && Math.abs(m[5]) < 1e-9 && Math.abs(m[6]) < 1e-9 && Math.abs(m[7]) < 1e-9;
+    out += diagonal ? '1' : '0';
+  }
+  return out;
 }
 
 /**
@@ -30,19 +40,30 @@ export function computationalSubgroup(
   ideal: IdealGroup,
   S: Mat3,
 ): { name: string; members: number[]; alternatives: string[] } {
+  // The answer depends only on the group and which of its elements are aligned: remembered.
   const aligned = alignedElements(ideal, S);
-  const top = largestAbelian2Subgroups(ideal)
-    .map((c) => ({ ...c, aligned: c.members.every((k) => aligned[k]) }))
-    .sort(
-      (a, b) =>
-        Number(b.aligned) - Number(a.aligned) ||
-        b.proper - a.proper ||
-        a.members.join(',').localeCompare(b.members.join(',')),
-    );
-  const chosen = top[0];
-  const alternatives = [...new Set(top.map((t) => t.name))].filter((n) => n !== chosen.name);
-  return { name: chosen.name, members: [...chosen.members], alternatives };
+  const key = `${ideal.name}:${aligned}`;
+  let hit = choiceCache.get(key);
+  if (!hit) {
+    const top = largestAbelian2Subgroups(ideal)
+      .map((c) => ({ c, aligned: c.members.every((k) => aligned[k] === '1') }))
+      .sort(
+        (a, b) =>
+          Number(b.aligned) - Number(a.aligned) ||
+          b.c.proper - a.c.proper ||
+          a.c.members.join(',').localeCompare(b.c.members.join(',')),
+      );
+    const chosen = top[0].c;
+    const alternatives = [...new Set(top.map((t) => t.c.name))].filter((n) => n !== chosen.name);
+    hit = { name: chosen.name, members: chosen.members, alternatives };
+    if (choiceCache.size >= 4096) choiceCache.clear();
+    choiceCache.set(key, hit);
+  }
+  return { name: hit.name, members: [...hit.members], alternatives: [...hit.alternatives] };
 }
+
+/** computationalSubgroup's choices by group name and aligned-element pattern. */
+const choiceCache = new Map<string, { name: string; members: readonly number[]; alternatives: readonly string[] }>();
 
 interface Abelian2Subgroup {
   readonly members: readonly number[];
