@@ -1,7 +1,9 @@
 import type { AtomJson } from '../contracts/structure';
+import { normalizeElement } from '../elements';
 import {
   DEFAULT_MAX_ATOMS,
   FrameError,
+  MAX_ABS_COORDINATE,
   LineReader,
   atomFrom,
   chargeFrom,
@@ -102,6 +104,75 @@ function parseComment(comment: string, line: number): CommentInfo {
 
 const COUNT_LINE = /^\s*\d+\s*$/;
 
+/** Powers of ten exactly representable as doubles (10⁰ … 10²²). */
+const EXACT_POWERS = Array.from({ length: 23 }, (_, k) => 10 ** k);
+
+/**
+ * The common atom line, `El x y z` with plain decimals, read in one scan without building field
+ * strings. Returns false — and the general path reads the line — for anything else: an unknown
+ * element, an exponent, more than 15 digits, a coordinate out of range, fewer than four fields,
+ * non-ASCII text. What it accepts it reads exactly as the general path does: a decimal of at
+ * most 15 digits is an integer below 2⁵³ divided by an exact power of ten, and that one IEEE
+ * division is correctly rounded, as Number() is (Clinger, PLDI 1990, "fast path").
+ */
+function fastAtomLine(line: string, atoms: AtomJson[], elements: Map<string, string | null>): boolean {
+  const n = line.length;
+  let i = 0;
+  let c = 0;
+  while (i < n && ((c = line.charCodeAt(i)) === 32 || c === 9)) i++;
+  const start = i;
+  while (i < n && (c = line.charCodeAt(i)) !== 32 && c !== 9) {
+    if (c > 127 || c < 32) return false;
+    i++;
+  }
+  if (i === start || i - start > 3) return false;
+  const token = line.slice(start, i);
+  let element = elements.get(token);
+  if (element === undefined) {
+    element = normalizeElement(token);
+    elements.set(token, element);
+  }
+  if (element == null) return false;
+  let x = 0;
+  let y = 0;
+  let z = 0;
+  for (let axis = 0; axis < 3; axis++) {
+    while (i < n && ((c = line.charCodeAt(i)) === 32 || c === 9)) i++;
+    if (i === n) return false;
+    let negative = false;
+    if (c === 45 || c === 43) {
+      negative = c === 45;
+      i++;
+    }
+    let mantissa = 0;
+    let digits = 0;
+    let decimals = 0;
+    let dot = false;
+    for (; i < n; i++) {
+      c = line.charCodeAt(i);
+      if (c >= 48 && c <= 57) {
+        mantissa = mantissa * 10 + (c - 48);
+        digits++;
+        if (dot) decimals++;
+      } else if (c === 46 && !dot) dot = true;
+      else break;
+    }
+    // The number must end at a field separator (or the line's end); a digit count of 15 keeps
+    // the mantissa exact.
+    if (digits === 0 || digits > 15 || (i < n && c !== 32 && c !== 9 && c !== 13)) return false;
+    const magnitude = decimals === 0 ? mantissa : mantissa / EXACT_POWERS[decimals];
+    if (magnitude > MAX_ABS_COORDINATE) return false;
+    const v = negative ? -magnitude : magnitude;
+    if (axis === 0) x = v;
+    else if (axis === 1) y = v;
+    else z = v;
+  }
+  // Columns after z are ignored, as on the general path; but only ASCII is read here.
+  for (let k = i; k < n; k++) if (line.charCodeAt(k) > 127) return false;
+  atoms.push({ element, x, y, z });
+  return true;
+}
+
 function looksLikeAtomLine(line: string): boolean {
   const t = splitFields(line);
   return t.length >= 4 && /^[A-Za-z]{1,3}$|^\d{1,3}$/.test(t[0]) && t.slice(1, 4).every((s) => !Number.isNaN(Number(s)));
@@ -116,6 +187,7 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
   const r = new LineReader(text);
   const out: ReadResult[] = [];
   let frame = 0;
+  const elementCache = new Map<string, string | null>();
 
   /** Skip to the next count line (not consumed), as after a damaged frame. */
   const resync = () => {
@@ -164,8 +236,13 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
 
     const atoms: AtomJson[] = [];
     let found = 0;
+    const plainColumns = info.speciesColumn === 0 && info.posColumn === 1;
     while (found < count) {
       const next = r.next();
+      if (next !== null && plainColumns && !firstError && fastAtomLine(next, atoms, elementCache)) {
+        found++;
+        continue;
+      }
       if (next === null || COUNT_LINE.test(next) || next.trim() === '') {
         // A blank line is consumed; a count line is left for the next frame.
         if (next !== null && next.trim() !== '') r.back();

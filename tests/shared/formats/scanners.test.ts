@@ -8,7 +8,9 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { normalizeElement } from '@shared/elements';
 import { parseNumber, splitFields } from '@shared/formats/common';
+import { readXyz } from '@shared/formats/xyz';
 
 const reference = (line: string) => line.trim().split(/\s+/);
 
@@ -63,6 +65,60 @@ describe('parseNumber', () => {
         expect(parseNumber(token)).toEqual(referenceNumber(token));
       }),
       { seed: 78, numRuns: 3000 },
+    );
+  });
+});
+
+/**
+ * readXyz reads the common atom line (`El x y z`, plain decimals) by a one-pass scan with its own
+ * decimal conversion. Whatever the line, the atoms it gives must be those of the plain
+ * definition: fields by trim + split, the element by normalizeElement, each coordinate by
+ * Number() (ECMA-262 StringToNumber) — compared with Object.is, so −0 and the last bit count.
+ */
+describe('XYZ atom lines', () => {
+  const referenceAtom = (line: string) => {
+    const t = reference(line);
+    const element = normalizeElement(t[0]);
+    const xyz = t.slice(1, 4).map((s) => parseNumber(s));
+    if (t.length < 4 || element == null || xyz.some((v) => v == null || !Number.isFinite(v) || Math.abs(v) > 1e6)) return null;
+    return { element, x: xyz[0]!, y: xyz[1]!, z: xyz[2]! };
+  };
+  const readLine = (line: string) => {
+    const [r] = readXyz('t.xyz', `1\nt\n${line}\n`);
+    return r.ok ? r.molecule.atoms[0] : null;
+  };
+  const same = (a: { element: string; x: number; y: number; z: number } | null, b: typeof a) =>
+    a === null || b === null ? a === b : a.element === b.element && Object.is(a.x, b.x) && Object.is(a.y, b.y) && Object.is(a.z, b.z);
+
+  it.each([
+    ['C 0.0 1.5 -2.25'],
+    ['  cl\t-0.0\t+.5 7.'],
+    ['6 1.234567890123456 -9.87654321012345 0.000000000000001'],
+    ['O 1.2345678901234567 2 3'],
+    ['N 1e-3 2 3 extra columns'],
+    ['Fe 999999.999999 -1000000 1000000.0000001'],
+    ['H 0.1 0.2 0.3\r'],
+    ['Xx 0 0 0'],
+    ['C 1 2'],
+    ['C\u000b1 2 3'],
+    ['C 1 2 3 \u00e9'],
+  ])('%j', (line) => {
+    expect(same(readLine(line), referenceAtom(line))).toBe(true);
+  });
+
+  it('agrees with the plain definition on random lines', () => {
+    const digits = (max: number) => fc.stringMatching(new RegExp(`^[0-9]{0,${max}}$`));
+    const decimal = fc
+      .tuple(fc.constantFrom('', '-', '+'), digits(9), fc.constantFrom('', '.'), digits(12), fc.constantFrom('', 'e-3', 'E+2', 'x'))
+      .map(([s, a, dot, b, e]) => `${s}${a}${dot}${b}${e}`);
+    const element = fc.constantFrom('C', 'c', 'CL', 'Cl', 'h', '6', '17', '118', '0', 'Q', 'Og', 'he');
+    const gap = fc.constantFrom(' ', '  ', '\t', ' \t ');
+    fc.assert(
+      fc.property(gap, element, gap, decimal, gap, decimal, gap, decimal, fc.constantFrom('', ' ', ' 1 2', '\t-'), (...parts) => {
+        const line = parts.join('');
+        expect(same(readLine(line), referenceAtom(line))).toBe(true);
+      }),
+      { seed: 2026, numRuns: 3000 },
     );
   });
 });
