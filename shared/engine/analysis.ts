@@ -45,10 +45,10 @@ export interface Analysis {
   } | null;
 }
 
-/** Node of the trie of generator lists closed so far. */
+/** Node of the trie of generator lists closed so far (children made when first needed). */
 interface ClosureNode {
   outcome: ClosureOutcome | null;
-  readonly children: Map<number, ClosureNode>;
+  children: Map<number, ClosureNode> | null;
 }
 
 /**
@@ -105,7 +105,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
     inversionPerm,
     inversionResidual,
     cache: new Map(),
-    closures: { outcome: null, children: new Map() },
+    closures: { outcome: null, children: null },
     sorted: [],
     walk: null,
   };
@@ -164,9 +164,10 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
     if (!(op.residual <= t)) break;
     if (op === store.identity || (group && group.keys!.has(op.key))) continue;
     gens.push(op);
+    node.children ??= new Map();
     let child = node.children.get(op.key);
     if (!child) {
-      child = { outcome: null, children: new Map() };
+      child = { outcome: null, children: null };
       node.children.set(op.key, child);
     }
     const closed = closeAt(a, child, gens, t, flip);

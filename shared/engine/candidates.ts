@@ -330,7 +330,11 @@ function sortPrefix(a: Float64Array, m: number): Float64Array {
 }
 
 function gcdInt(a: number, b: number): number {
-  while (b) [a, b] = [b, a % b];
+  while (b) {
+    const r = a % b;
+    a = b;
+    b = r;
+  }
   return a;
 }
 

@@ -50,13 +50,13 @@ export function rotationFromCorrelation(s: readonly number[]): Mat3 {
   const sxx = s[0], sxy = s[1], sxz = s[2];
   const syx = s[3], syy = s[4], syz = s[5];
   const szx = s[6], szy = s[7], szz = s[8];
-  const n = [
-    sxx + syy + szz, syz - szy, szx - sxz, sxy - syx,
-    syz - szy, sxx - syy - szz, sxy + syx, szx + sxz,
-    szx - sxz, sxy + syx, -sxx + syy - szz, syz + szy,
-    sxy - syx, szx + sxz, syz + szy, -sxx - syy + szz,
-  ];
-  const q = [0, 0, 0, 0];
+  // Horn's 4×4 matrix and its top eigenvector in scratch arrays (this runs for every fit).
+  const n = hornScratch;
+  n[0] = sxx + syy + szz; n[1] = syz - szy; n[2] = szx - sxz; n[3] = sxy - syx;
+  n[4] = syz - szy; n[5] = sxx - syy - szz; n[6] = sxy + syx; n[7] = szx + sxz;
+  n[8] = szx - sxz; n[9] = sxy + syx; n[10] = -sxx + syy - szz; n[11] = syz + szy;
+  n[12] = sxy - syx; n[13] = szx + sxz; n[14] = syz + szy; n[15] = -sxx - syy + szz;
+  const q = quaternionScratch;
   topEigenvector(n, 4, q);
   const q0 = q[0], q1 = q[1], q2 = q[2], q3 = q[3];
   return [
@@ -65,6 +65,9 @@ export function rotationFromCorrelation(s: readonly number[]): Mat3 {
     2 * (q1 * q3 - q0 * q2), 2 * (q2 * q3 + q0 * q1), q0 * q0 - q1 * q1 - q2 * q2 + q3 * q3,
   ];
 }
+
+const hornScratch = new Float64Array(16);
+const quaternionScratch = new Float64Array(4);
 
 /**
  * The orthogonal matrix of determinant `det` (+1 rotation, −1 improper) that best maps the

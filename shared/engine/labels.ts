@@ -15,7 +15,11 @@ export interface ElementLabel {
 }
 
 function gcd(a: number, b: number): number {
-  while (b) [a, b] = [b, a % b];
+  while (b) {
+    const r = a % b;
+    a = b;
+    b = r;
+  }
   return a;
 }
 

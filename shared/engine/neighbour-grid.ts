@@ -91,9 +91,19 @@ function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): Neigh
   const lists: number[][] = Array.from({ length: kindCount }, () => []);
   for (let i = 0; i < n; i++) lists[kinds[i]].push(i);
   const byKind = lists.map((l) => {
-    l.sort((a, b) => coords[3 * a] - coords[3 * b] || a - b);
+    // By x, then index: an insertion sort (at most SMALL_STRUCTURE atoms; the lists are in index
+    // order already, so a strict comparison keeps equal x in index order).
     const out = i32(l.length);
-    for (let k = 0; k < l.length; k++) out[k] = l[k];
+    for (let k = 0; k < l.length; k++) {
+      const v = l[k];
+      const x = coords[3 * v];
+      let p = k - 1;
+      while (p >= 0 && coords[3 * out[p]] > x) {
+        out[p + 1] = out[p];
+        p--;
+      }
+      out[p + 1] = v;
+    }
     return out;
   });
   const xByKind = byKind.map((l) => {

@@ -267,19 +267,19 @@ export function closeUnder(
   const dense = store.denseId !== 0;
   const generation = nextGeneration();
   const seen = dense ? null : new Set<number>();
-  const mark = (key: number) => (dense ? (walkStamp[key] = generation) : seen!.add(key));
-  const has = (key: number) => (dense ? walkStamp[key] === generation : seen!.has(key));
-  mark(store.identity.key);
+  if (dense) walkStamp[store.identity.key] = generation;
+  else seen!.add(store.identity.key);
   for (let k = 0; k < elements.length; k++) {
     const e = elements[k];
-    for (const g of generators) {
-      const p = product(store, e, g);
-      if (has(p.key)) continue;
+    for (let gi = 0; gi < generators.length; gi++) {
+      const p = product(store, e, generators[gi]);
+      if (dense ? walkStamp[p.key] === generation : seen!.has(p.key)) continue;
       if (!(p.residual <= tol)) {
         if (failure) failure.residual = p.residual;
         return null;
       }
-      mark(p.key);
+      if (dense) walkStamp[p.key] = generation;
+      else seen!.add(p.key);
       elements.push(p);
       if (elements.length > maxOrder) {
         if (failure) failure.residual = Infinity;

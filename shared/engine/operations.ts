@@ -38,7 +38,11 @@ export function typeSignature(t: Pick<OpType, 'det' | 'j' | 'order'>): string {
 }
 
 function gcd(a: number, b: number): number {
-  while (b) [a, b] = [b, a % b];
+  while (b) {
+    const r = a % b;
+    a = b;
+    b = r;
+  }
   return a;
 }
 
