@@ -15,26 +15,27 @@ export interface Outcome {
 }
 
 /**
- * The loop every structure command shares. Runs `handle` on each structure in input order, with
- * a progress line on stderr. A frame that could not be read, or that the engine refuses
+ * The loop every structure command shares. Runs `handle` on each structure in input order (as
+ * the inputs stream in), with a progress line on stderr. A frame that could not be read, or that the engine refuses
  * (EngineError), is printed on stderr as one located line, becomes
  * `{ name, inputFile, frameIndex, error }` and makes the exit status 1; the other structures go
  * on. Any other error propagates. With `json`, the entries stream to `out` as
  * `{"structures":[...]}` and no outcome is kept (large batches stay out of memory); otherwise the
  * outcomes come back in input order for a table.
  */
-export function eachStructure(
+export async function eachStructure(
   command: string,
-  items: readonly InputItem[],
+  items: AsyncIterable<InputItem>,
   json: boolean,
   out: BufferedOut,
   handle: (item: LoadedStructure) => Entry,
-): { status: number; outcomes: Outcome[] } {
-  const bar = progress(command, items.length);
+): Promise<{ status: number; outcomes: Outcome[] }> {
+  const bar = progress(command);
   const outcomes: Outcome[] = [];
   let status = EXIT_OK;
   if (json) out.write('{"structures":[');
-  items.forEach((item, k) => {
+  let k = 0;
+  for await (const item of items) {
     bar.tick(k);
     let outcome: Outcome;
     if (!item.ok) {
@@ -57,7 +58,8 @@ export function eachStructure(
     }
     if (json) out.write(`${k > 0 ? ',' : ''}\n${JSON.stringify(outcome.entry)}`);
     else outcomes.push(outcome);
-  });
+    k++;
+  }
   bar.done();
   if (json) out.write('\n]}\n');
   return { status, outcomes };

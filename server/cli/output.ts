@@ -100,22 +100,23 @@ export function printError(message: string): void {
 }
 
 /**
- * Progress on stderr for long runs, only when stderr is a terminal (scripts and pipes stay clean).
+ * Progress on stderr for long runs (the inputs stream in, so the total is not known ahead), only
+ * when stderr is a terminal (scripts and pipes stay clean) and from the 200th structure on.
  * Returns a function to call with the count done; call `done()` to clear the line.
  */
-export function progress(label: string, total: number): { tick: (n: number) => void; done: () => void } {
-  const show = process.stderr.isTTY === true && total >= 200;
+export function progress(label: string): { tick: (n: number) => void; done: () => void } {
+  const show = process.stderr.isTTY === true;
   let last = 0;
   return {
     tick: (n) => {
-      if (!show) return;
+      if (!show || n < 200) return;
       const now = Date.now();
-      if (now - last < 200 && n < total) return;
+      if (now - last < 200) return;
       last = now;
-      process.stderr.write(`\r${label}: ${n}/${total} structures`);
+      process.stderr.write(`\r${label}: ${n} structures done`);
     },
     done: () => {
-      if (show) process.stderr.write('\r\u001b[2K');
+      if (show && last > 0) process.stderr.write('\r\u001b[2K');
     },
   };
 }

@@ -1,6 +1,6 @@
 import { ladder, perceive } from '@shared/engine';
 import { eachStructure, type LoadedStructure } from './each-structure';
-import { loadInputs } from './load-inputs';
+import { streamInputs } from './load-inputs';
 import { EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
 import { BufferedOut, formatLength, formatOrder, hillFormula, renderTable } from './output';
 
@@ -50,10 +50,10 @@ async function runEach(command: string, argv: string[], withTolerance: boolean, 
   if (positionals.length === 0) throw new UsageError(`pointfold ${command}: give at least one FILE (see pointfold ${command} --help)`);
   const tolerance = lengthOption(command, 'tolerance', (values as { tolerance?: string }).tolerance, 1);
   const maxAtoms = integerOption(command, 'max-atoms', values['max-atoms'] as string | undefined, 1, 1_000_000);
-  const items = await loadInputs(positionals, { maxAtoms });
+  const items = streamInputs(positionals, { maxAtoms });
   const fn = analyse(tolerance);
   const out = new BufferedOut();
-  const { status, outcomes } = eachStructure(command, items, Boolean(values.json), out, (item) => {
+  const { status, outcomes } = await eachStructure(command, items, Boolean(values.json), out, (item) => {
     const m = item.molecule;
     return { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, formula: hillFormula(m.atoms.map((a) => a.element)), ...fn(item) };
   });

@@ -5,7 +5,7 @@ import type { StructureResult } from '@shared/contracts/structure';
 import { parseGroupName, snap } from '@shared/engine';
 import { OUTPUT_EXTENSIONS, outputFileName, verifyWritten, writeStructure } from '@shared/formats/write';
 import { eachStructure } from './each-structure';
-import { loadInputs } from './load-inputs';
+import { streamInputs } from './load-inputs';
 import { EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
 import { BufferedOut, formatCsm, formatLength, formatOrder, renderTable } from './output';
 
@@ -97,11 +97,12 @@ export async function runSnap(argv: string[]): Promise<number> {
   const settings: SnapSettings = parsed.data;
   const maxAtoms = integerOption('snap', 'max-atoms', values['max-atoms'], 1, 1_000_000);
 
-  const items = await loadInputs(positionals, { maxAtoms });
+  // Output file names number the frames of a file, so with --out each file is counted first.
+  const items = streamInputs(positionals, { maxAtoms, frameCounts: values.out != null });
   const out = new BufferedOut();
   const usedNames = new Set<string>();
   if (values.out != null) mkdirSync(values.out, { recursive: true });
-  const { status, outcomes } = eachStructure('snap', items, Boolean(values.json), out, (item) => {
+  const { status, outcomes } = await eachStructure('snap', items, Boolean(values.json), out, (item) => {
     const m = item.molecule;
     const result = snap(m, settings);
     const entry: Record<string, unknown> = { ...result, inputFile: m.sourceFile, frameIndex: m.frameIndex };

@@ -6,7 +6,7 @@
  */
 export * from './types';
 export { DEFAULT_MAX_ATOMS, MAX_ABS_COORDINATE, type ReadOptions } from './common';
-export { detectFormat, readStructures } from './read';
+export { detectFormat, iterateStructures, readStructures } from './read';
 export { OUTPUT_EXTENSIONS, VERIFY_TOLERANCE, outputFileName, verifyWritten, writeStructure } from './write';
 export { BOHR_IN_ANGSTROM } from './qcschema';
 export { BOND_SLACK, guessBonds } from './molfile';

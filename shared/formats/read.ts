@@ -4,7 +4,7 @@ import { readMolfile } from './molfile';
 import { readPdb } from './pdb';
 import { readQcschema } from './qcschema';
 import type { InputFormat, ReadResult } from './types';
-import { readXyz } from './xyz';
+import { iterateXyz } from './xyz';
 
 const BY_EXTENSION: Record<string, InputFormat> = {
   xyz: 'xyz',
@@ -69,32 +69,72 @@ export function detectFormat(fileName: string, content: string): InputFormat | n
  * format gives a single failure. Options: `maxAtoms` per structure (default 20,000).
  */
 export function readStructures(fileName: string, content: string | Uint8Array, options: ReadOptions = {}): ReadResult[] {
+  return [...iterateStructures(fileName, content, options)];
+}
+
+/**
+ * The structures of {@link readStructures} one at a time: the frames of an XYZ file are read
+ * only as they are asked for (other formats are read whole, then handed out). Never throws.
+ */
+export function* iterateStructures(fileName: string, content: string | Uint8Array, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
   const decoded = decodeText(content);
-  if (!decoded.ok) return [failure(fileName, 0, null, decoded.message)];
+  if (!decoded.ok) {
+    yield failure(fileName, 0, null, decoded.message);
+    return;
+  }
   const text = decoded.text;
-  if (text.trim() === '') return [failure(fileName, 0, null, 'empty file')];
+  if (text.trim() === '') {
+    yield failure(fileName, 0, null, 'empty file');
+    return;
+  }
   const format = detectFormat(fileName, text);
-  try {
-    switch (format) {
-      case 'xyz':
-      case 'extxyz':
-        return readXyz(fileName, text, options);
-      case 'mol':
-      case 'sdf':
-        return readMolfile(fileName, text, options);
-      case 'pdb':
-        return readPdb(fileName, text, options);
-      case 'cml':
-        return readCml(fileName, text, options);
-      case 'qcschema':
-        return readQcschema(fileName, text, options);
-      default:
-        return [
-          failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)'),
-        ];
+  let frames: Iterable<ReadResult>;
+  switch (format) {
+    case 'xyz':
+    case 'extxyz':
+      frames = iterateXyz(fileName, text, options);
+      break;
+    case 'mol':
+    case 'sdf':
+      frames = guarded(fileName, () => readMolfile(fileName, text, options));
+      break;
+    case 'pdb':
+      frames = guarded(fileName, () => readPdb(fileName, text, options));
+      break;
+    case 'cml':
+      frames = guarded(fileName, () => readCml(fileName, text, options));
+      break;
+    case 'qcschema':
+      frames = guarded(fileName, () => readQcschema(fileName, text, options));
+      break;
+    default:
+      frames = [
+        failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)'),
+      ];
+  }
+  // The readers catch their own errors; this is a last guard so that a bug never loses the batch
+  // (the structures handed out before it stay handed out).
+  let frame = 0;
+  const it = frames[Symbol.iterator]();
+  for (;;) {
+    let step: IteratorResult<ReadResult>;
+    try {
+      step = it.next();
+    } catch (e) {
+      yield failure(fileName, frame, null, `could not read the file: ${(e as Error).message.split('\n')[0]}`);
+      return;
     }
+    if (step.done) return;
+    frame++;
+    yield step.value;
+  }
+}
+
+/** A whole-file reader's result, or its failure as a one-line message. */
+function guarded(fileName: string, read: () => ReadResult[]): ReadResult[] {
+  try {
+    return read();
   } catch (e) {
-    // The readers catch their own errors; this is a last guard so that a bug never loses the batch.
     return [failure(fileName, 0, null, `could not read the file: ${(e as Error).message.split('\n')[0]}`)];
   }
 }

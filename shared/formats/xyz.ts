@@ -183,9 +183,16 @@ function looksLikeAtomLine(line: string): boolean {
  * failure and reading resumes at the next count line.
  */
 export function readXyz(file: string, text: string, options: ReadOptions = {}): ReadResult[] {
+  return [...iterateXyz(file, text, options)];
+}
+
+/**
+ * The frames of {@link readXyz} one at a time, each read only when it is asked for (a long
+ * trajectory is never held in memory as parsed atoms all at once).
+ */
+export function* iterateXyz(file: string, text: string, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
   const maxAtoms = options.maxAtoms ?? DEFAULT_MAX_ATOMS;
   const r = new LineReader(text);
-  const out: ReadResult[] = [];
   let frame = 0;
   const elementCache = new Map<string, string | null>();
 
@@ -197,17 +204,21 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
   for (;;) {
     let line = r.next();
     while (line !== null && line.trim() === '') line = r.next();
-    if (line === null) break;
+    if (line === null) {
+      // Every frame met so far was yielded (read or failed); none at all: an empty file.
+      if (frame === 0) yield failure(file, 0, null, 'empty file (no structures)');
+      break;
+    }
     const countLineNo = r.lineNo;
     const count = COUNT_LINE.test(line) ? Number(line) : null;
     if (count == null) {
-      out.push(failure(file, frame, countLineNo, `expected an atom count, found ${quote(line)}`));
+      yield failure(file, frame, countLineNo, `expected an atom count, found ${quote(line)}`);
       resync();
       frame++;
       continue;
     }
     if (count === 0) {
-      out.push(failure(file, frame, countLineNo, 'the atom count is 0'));
+      yield failure(file, frame, countLineNo, 'the atom count is 0');
       r.next();
       resync();
       frame++;
@@ -216,13 +227,13 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
     if (count > maxAtoms) {
       // Skip the frame's lines without parsing them.
       r.skip(count + 1);
-      out.push(failure(file, frame, countLineNo, tooManyAtoms(count, maxAtoms)));
+      yield failure(file, frame, countLineNo, tooManyAtoms(count, maxAtoms));
       frame++;
       continue;
     }
     const comment = r.next();
     if (comment === null) {
-      out.push(failure(file, frame, countLineNo, `expected a comment line and ${count} atom lines, found the end of the file`));
+      yield failure(file, frame, countLineNo, `expected a comment line and ${count} atom lines, found the end of the file`);
       break;
     }
     const commentLineNo = r.lineNo;
@@ -273,10 +284,10 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
       }
     }
     if (firstError) {
-      out.push(failure(file, frame, firstError.line, firstError.message));
+      yield failure(file, frame, firstError.line, firstError.message);
       resync();
     } else {
-      out.push({
+      yield {
         ok: true,
         molecule: {
           name: info.name ?? defaultName(file, frame),
@@ -286,12 +297,10 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
           charge: info.charge,
           multiplicity: info.multiplicity,
         },
-      });
+      };
     }
     frame++;
   }
-  if (out.length === 0) out.push(failure(file, 0, null, 'empty file (no structures)'));
-  return out;
 }
 
 /** Fixed-point text of a coordinate with `decimals` places, never `-0.000…`. */

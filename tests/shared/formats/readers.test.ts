@@ -6,6 +6,7 @@ import {
   detectFormat,
   elementFromAtomName,
   formatParseFailure,
+  iterateStructures,
   readStructures,
   type MoleculeInput,
   type ReadResult,
@@ -29,6 +30,16 @@ describe('XYZ', () => {
     expect(molecules(rs).map((m) => m.name)).toEqual(['water, B3LYP/def2-TZVP optimized', 'ammonia opt', 'methane']);
     expect(molecules(rs).map((m) => m.frameIndex)).toEqual([0, 1, 3]);
     expect(messages(rs)).toEqual(['ligands.xyz:25: frame 3: expected 12 atom lines, found 11']);
+  });
+
+  it('hands the frames out one at a time, the same as reading the whole file', () => {
+    const frames = iterateStructures('ligands.xyz', sample('ligands.xyz'));
+    const first = frames.next();
+    expect(first.done).toBe(false);
+    expect(first.value).toEqual(readStructures('ligands.xyz', sample('ligands.xyz'))[0]);
+    expect([first.value, ...frames]).toEqual(readStructures('ligands.xyz', sample('ligands.xyz')));
+    expect([...iterateStructures('blank.xyz', '\n\n')]).toEqual(readStructures('blank.xyz', '\n\n'));
+    expect([...iterateStructures('blank.xyz', '\n\n')].map((r) => !r.ok && r.error.message)).toEqual(['empty file']);
   });
 
   it('takes charge=, multiplicity= and mult= from the comment line and keeps the rest as the name', () => {
