@@ -26,7 +26,9 @@ export interface Analysis {
   /** Inversion pairing and its residual (Å), if every atom has a partner within the loose tolerance. */
   readonly inversionPerm: Int32Array | null;
   readonly inversionResidual: number;
-  readonly cache: Map<string, FoundGroup>;
+  /** Groups found so far by (prefix count, linear flags) — valid while the store has `cacheSize` operations. */
+  readonly cache: Map<number, FoundGroup>;
+  cacheSize: number;
   /** Closures of generator sets already formed (see {@link closeAt}), by their generators' keys. */
   readonly closures: ClosureNode;
   /** The store's operations by residual (see sortedOperations). */
@@ -105,6 +107,7 @@ export function analyse(mol: PreparedMolecule, maxTolerance = CANDIDATE_TOLERANC
     inversionPerm,
     inversionResidual,
     cache: new Map(),
+    cacheSize: 0,
     closures: { outcome: null, children: null },
     sorted: [],
     walk: null,
@@ -131,7 +134,11 @@ export function groupAt(a: Analysis, t: number): FoundGroup {
     else hi = mid;
   }
   const count = lo;
-  const key = `${count}:${a.store.byKey.size}:${a.lineResidual <= t}:${a.inversionResidual <= t}`;
+  if (a.cacheSize !== ops.length) {
+    a.cache.clear();
+    a.cacheSize = ops.length;
+  }
+  const key = 4 * count + (a.lineResidual <= t ? 2 : 0) + (a.inversionResidual <= t ? 1 : 0);
   const hit = a.cache.get(key);
   if (hit) return hit;
   const found = computeGroupAt(a, t);
@@ -182,10 +189,20 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   // Products formed above may have grown the store; the next call then starts afresh.
   a.walk = { ops, index: k, t, group, gens, node, notClosed, flipAbove: flip.above };
   if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
-  group.id ??= `${group.name}:${group.elements!.map((e) => e.key)
-    .sort((p, q) => p - q)
-    .join(',')}`;
-  return { name: group.name!, order: group.elements!.length, tolerance: t, elements: group.elements!, notClosed, id: group.id };
+  const outcome = group;
+  return {
+    name: group.name!,
+    order: group.elements!.length,
+    tolerance: t,
+    elements: group.elements!,
+    notClosed,
+    // Built only when asked for (fits are memoised by it; most groups met are never fitted).
+    get id() {
+      return (outcome.id ??= `${outcome.name}:${outcome.elements!.map((e) => e.key)
+        .sort((p, q) => p - q)
+        .join(',')}`);
+    },
+  };
 }
 
 /** The stored operations sorted by residual (then key), re-sorted only when the store has grown. */

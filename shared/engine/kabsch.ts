@@ -89,19 +89,31 @@ export function superpose(
   q: ArrayLike<number>,
 ): { rotation: Mat3; rmsd: number; distances: number[]; centroidP: number[]; centroidQ: number[] } {
   const n = p.length / 3;
-  const cp = [0, 0, 0];
-  const cq = [0, 0, 0];
+  let px = 0;
+  let py = 0;
+  let pz = 0;
+  let qx = 0;
+  let qy = 0;
+  let qz = 0;
   for (let i = 0; i < n; i++) {
-    for (let k = 0; k < 3; k++) {
-      cp[k] += p[3 * i + k] / n;
-      cq[k] += q[3 * i + k] / n;
-    }
+    px += p[3 * i] / n;
+    py += p[3 * i + 1] / n;
+    pz += p[3 * i + 2] / n;
+    qx += q[3 * i] / n;
+    qy += q[3 * i + 1] / n;
+    qz += q[3 * i + 2] / n;
   }
+  const cp = [px, py, pz];
+  const cq = [qx, qy, qz];
   const pc = f64(3 * n);
   const qc = f64(3 * n);
-  for (let i = 0; i < 3 * n; i++) {
-    pc[i] = p[i] - cp[i % 3];
-    qc[i] = q[i] - cq[i % 3];
+  for (let i = 0; i < n; i++) {
+    pc[3 * i] = p[3 * i] - px;
+    pc[3 * i + 1] = p[3 * i + 1] - py;
+    pc[3 * i + 2] = p[3 * i + 2] - pz;
+    qc[3 * i] = q[3 * i] - qx;
+    qc[3 * i + 1] = q[3 * i + 1] - qy;
+    qc[3 * i + 2] = q[3 * i + 2] - qz;
   }
   const r = rotationFromCorrelation(correlation(pc, qc));
   const distances = new Array<number>(n);

@@ -24,7 +24,14 @@ export const ENGINE_VERSION = 'pointfold-engine 0.1.0';
 /** Displacement RMSD and maximum (Å) of the snap onto `fit`, after optimal superposition. */
 export function snapCost(a: Analysis, fit: FrameFit): { rmsd: number; max: number } {
   const s = superpose(a.mol.y, fit.W);
-  return { rmsd: s.rmsd, max: Math.max(0, ...s.distances) };
+  return { rmsd: s.rmsd, max: largest(s.distances) };
+}
+
+/** The largest of some non-negative values (0 for none). */
+function largest(values: readonly number[]): number {
+  let m = 0;
+  for (const v of values) if (v > m) m = v;
+  return m;
 }
 
 /** Ladder JSON with snap costs (memoised per distinct group). */
@@ -121,9 +128,14 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   if (!standard) for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) centredOut[3 * i + d] = out[3 * i + d] - mol.centre[d];
   const symmetryRmsdAfter = symmetryRmsd(standard ? out : centredOut, outMats, fit.perms);
   const inputRaw = f64(3 * n);
-  for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) inputRaw[3 * i + d] = mol.y[3 * i + d] + mol.centre[d];
+  const [cx, cy, cz] = mol.centre;
+  for (let i = 0; i < n; i++) {
+    inputRaw[3 * i] = mol.y[3 * i] + cx;
+    inputRaw[3 * i + 1] = mol.y[3 * i + 1] + cy;
+    inputRaw[3 * i + 2] = mol.y[3 * i + 2] + cz;
+  }
   const sup = superpose(inputRaw, out);
-  const maxDisplacement = Math.max(0, ...sup.distances);
+  const maxDisplacement = largest(sup.distances);
   const csm = continuousSymmetryMeasure(fit.Z, fit.W);
   const { operations, elements } = describe(chosen, toOut);
   const classes = equivalenceClasses(n, fit.perms);
