@@ -189,20 +189,31 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   // Products formed above may have grown the store; the next call then starts afresh.
   a.walk = { ops, index: k, t, group, gens, node, notClosed, flipAbove: flip.above };
   if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
-  const outcome = group;
-  return {
-    name: group.name!,
-    order: group.elements!.length,
-    tolerance: t,
-    elements: group.elements!,
-    notClosed,
-    // Built only when asked for (fits are memoised by it; most groups met are never fitted).
-    get id() {
-      return (outcome.id ??= `${outcome.name}:${outcome.elements!.map((e) => e.key)
-        .sort((p, q) => p - q)
-        .join(',')}`);
-    },
-  };
+  return new ClosedGroup(group, t, notClosed);
+}
+
+/** A finite group found by the walk; its id is built only when asked for (fits are memoised by it, and most groups met are never fitted). */
+class ClosedGroup implements FoundGroup {
+  readonly name: string;
+  readonly order: number;
+  readonly elements: readonly SymOp[];
+
+  constructor(
+    private readonly outcome: ClosureOutcome,
+    readonly tolerance: number,
+    readonly notClosed: boolean,
+  ) {
+    this.name = outcome.name!;
+    this.order = outcome.elements!.length;
+    this.elements = outcome.elements!;
+  }
+
+  get id(): string {
+    const o = this.outcome;
+    return (o.id ??= `${o.name}:${o.elements!.map((e) => e.key)
+      .sort((p, q) => p - q)
+      .join(',')}`);
+  }
 }
 
 /** The stored operations sorted by residual (then key), re-sorted only when the store has grown. */

@@ -34,8 +34,18 @@ export interface OpType {
 
 /** Signature string of an OpType, equal exactly for conjugate types: `+1/5`, `-0/2` (σ), `-1/2` (i). */
 export function typeSignature(t: Pick<OpType, 'det' | 'j' | 'order'>): string {
-  return `${t.det > 0 ? '+' : '-'}${t.j}/${t.order}`;
+  // One string per type, made once: every found operation carries one.
+  if (t.j >= 1024 || t.j < 0) return `${t.det > 0 ? '+' : '-'}${t.j}/${t.order}`;
+  const key = (t.order * 1024 + t.j) * 2 + (t.det > 0 ? 1 : 0);
+  let sig = signatures.get(key);
+  if (sig === undefined) {
+    sig = `${t.det > 0 ? '+' : '-'}${t.j}/${t.order}`;
+    signatures.set(key, sig);
+  }
+  return sig;
 }
+
+const signatures = new Map<number, string>();
 
 function gcd(a: number, b: number): number {
   while (b) {
