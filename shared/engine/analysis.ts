@@ -63,7 +63,7 @@ interface ClosureOutcome {
   name: string | null;
   worst: number;
   failsBelow: number;
-  /** Keys of the elements. */
+  /** Keys of the elements (made when a walk first asks whether an operation is in the group). */
   keys: Set<number> | null;
   /** FoundGroup.id, once asked for. */
   id: string | null;
@@ -169,7 +169,7 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   for (; k < ops.length; k++) {
     const op = ops[k];
     if (!(op.residual <= t)) break;
-    if (op === store.identity || (group && group.keys!.has(op.key))) continue;
+    if (op === store.identity || (group && (group.keys ??= new Set(group.elements!.map((e) => e.key))).has(op.key))) continue;
     gens.push(op);
     node.children ??= new Map();
     let child = node.children.get(op.key);
@@ -252,7 +252,7 @@ function closeAt(a: Analysis, node: ClosureNode, gens: readonly SymOp[], t: numb
   if (elements) {
     let worst = 0;
     for (const e of elements) if (e.residual > worst) worst = e.residual;
-    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst, keys: new Set(elements.map((e) => e.key)), id: null };
+    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst, keys: null, id: null };
   } else {
     outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, id: null };
   }
