@@ -12,7 +12,7 @@ import {
   type Vec3,
 } from './mat3';
 import { matchOperation, probeOperation } from './operations';
-import { addOperation, closeUnder, exactOperation, findOp, refineOperation, type OpStore } from './op-store';
+import { addOperation, closeUnder, exactOperation, findOp, refineOperation, type OpStore, type SymOp } from './op-store';
 import { f64, i32, copyI32 } from './arena';
 
 /**
@@ -33,7 +33,8 @@ import { f64, i32, copyI32 } from './arena';
  *   found from r₁ or along r₀ × r₁);
  * - for cubic and icosahedral structures, C₃/C₄/C₅ axes placed relative to each triple of
  *   mutually perpendicular C₂ axes (body diagonals, coordinate axes, (0, ±1, ±φ)).
- * Products of operations (closure) are formed later, on demand (op-store `product`).
+ * Each operation found is closed with those found before it at once (op-store `closeUnder`), so
+ * a candidate that is a product of known operations is recognised after the cheap probe.
  * Each candidate is first probed on a few atoms, then matched on all N atoms with the
  * neighbour grid, then refined (Procrustes fit to its pairing, angle snapped to 2π/n).
  */
@@ -58,9 +59,15 @@ export function generateCandidates(store: OpStore): void {
     // exact directions is already the best fit; only its type needs recording.
     const op = residual <= exact ? exactOperation(store, m, copyI32(perm), det) : refineOperation(store, copyI32(perm), det);
     if (!op) return false;
-    addOperation(store, op);
+    if (addOperation(store, op) === op) {
+      // Close what is known under the new operation at once: the candidates that are products
+      // of found operations are then recognised after the cheap probe, not matched again.
+      matched.push(op);
+      closeUnder(store, matched, tol, 256);
+    }
     return true;
   };
+  const matched: SymOp[] = [];
   // Each (operation type, direction) is tried once; directions within ~5e-4 rad count as equal.
   const once = (tag: number, d: Vec3): boolean => {
     // sign-canonical without allocating: flip so that the first clearly non-zero component is positive
@@ -108,9 +115,6 @@ export function generateCandidates(store: OpStore): void {
     testAxis(d, possibleOrders(store, d, shells, ringAtoms));
     testMirror(d);
   }
-  // Close what was found so far: operations that are products of these are then recognised
-  // after the cheap probe instead of being matched on all atoms again.
-  closeUnder(store, [...store.byKey.values()].filter((op) => op.kind !== 'identity'), tol, 256);
   for (const shell of pairShells) {
     const refs = referenceAtoms(y, shell, tol);
     const r0 = atomVector(y, refs[0]);

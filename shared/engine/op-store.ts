@@ -203,10 +203,11 @@ export function addOperation(store: OpStore, op: SymOp): SymOp {
 }
 
 /**
- * g∘h as a stored operation. When it is not yet known its permutation is composed and the
- * matrix product snapped to an exact element of the permutation's order; its residual is measured with that composed permutation (so the found
- * operations always multiply like their permutations). An impossible product is stored with
- * residual Infinity so that it is computed once.
+ * g∘h as a stored operation. When it is not yet known its permutation is composed (so the found
+ * operations always multiply like their permutations) and the exact element of the
+ * permutation's order is fitted to that pairing, as for a matched operation (fitElement): an
+ * operation's matrix and residual do not depend on whether it was met as a product or matched
+ * directly. An impossible product is stored with residual Infinity so that it is computed once.
  */
 export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const key = productKey(store, g, h);
@@ -216,10 +217,9 @@ export function product(store: OpStore, g: SymOp, h: SymOp): SymOp {
   const perm = i32(n);
   for (let i = 0; i < n; i++) perm[i] = g.perm[h.perm[i]];
   const det = (g.det * h.det) as 1 | -1;
-  // The product of two fitted elements is already close to the best fit: snap its angle only.
-  let order = permutationOrder(perm, 256);
-  if (det === -1 && order % 2 === 1) order *= 2;
-  const fit = order > 0 && order <= 256 ? regularize(mul3(g.matrix, h.matrix), det, order) : null;
+  // Fitted to its own pairing like every matched operation, so that an operation's residual
+  // does not depend on whether it was met as a product or matched directly.
+  const fit = fitElement(store.mol.y, perm, det);
   const op: SymOp = fit
     ? makeOp(key, perm, fit.matrix, residualWithPermutation(store.mol.y, fit.matrix, perm), fit.type)
     : makeOp(key, perm, mul3(g.matrix, h.matrix), Infinity, IMPOSSIBLE[det > 0 ? 0 : 1], '?');

@@ -8,6 +8,9 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { StructureResult } from '@shared/contracts/structure';
 import { allowedTargets, EngineError, LADDER_MAX, LADDER_MIN, LADDER_RUNGS, ladder, perceive, pointGroupAt, snap } from '@shared/engine';
+import { analyse } from '@shared/engine/analysis';
+import { prepareMolecule } from '@shared/engine/molecule';
+import { fitElement, residualWithPermutation } from '@shared/engine/operations';
 import { GENERIC_SEEDS, input, mv, orbit, scramble, setDistance } from './helpers';
 import { benzene, water } from './molecule-builders';
 
@@ -229,5 +232,28 @@ describe('bad input', () => {
   });
   it('rejects invalid settings', () => {
     expect(() => snap(input(water()), { tolerance: -1 })).toThrow(/tolerance/);
+  });
+});
+
+describe('found operations', () => {
+  // Common practice (no source): an operation's residual should depend on the operation, not on
+  // how the search met it. Every stored operation — matched and refined, or formed as a product
+  // of others — must carry the residual of the exact element fitted to its own pairing.
+  it.each([
+    ['benzene', () => scramble(benzene(), 11, 0.004).atoms],
+    ['water', () => scramble(water(), 12, 0.003).atoms],
+    ['Oh orbit', () => scramble(orbit('Oh', GENERIC_SEEDS.slice(0, 2)), 13, 0.003).atoms],
+  ])('%s: residuals do not depend on the route', (_name, atoms) => {
+    const mol = prepareMolecule(atoms());
+    const a = analyse(mol);
+    let checked = 0;
+    for (const op of a.store.byKey.values()) {
+      if (!Number.isFinite(op.residual) || op.kind === 'identity') continue;
+      const fit = fitElement(mol.y, op.perm, op.det);
+      expect(fit).not.toBeNull();
+      expect(op.residual).toBe(residualWithPermutation(mol.y, fit!.matrix, op.perm));
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(0);
   });
 });
