@@ -210,9 +210,12 @@ class ClosedGroup implements FoundGroup {
 
   get id(): string {
     const o = this.outcome;
-    return (o.id ??= `${o.name}:${o.elements!.map((e) => e.key)
-      .sort((p, q) => p - q)
-      .join(',')}`);
+    if (o.id === null) {
+      const keys = new Int32Array(o.elements!.length);
+      for (let i = 0; i < keys.length; i++) keys[i] = o.elements![i].key;
+      o.id = `${o.name}:${keys.sort().join(',')}`;
+    }
+    return o.id;
   }
 }
 

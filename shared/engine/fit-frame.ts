@@ -79,12 +79,13 @@ export function fitFinite(
   if (elements.length !== order) {
     throw new EngineError('internal', `fitting ${name}: ${elements.length} operations for a group of order ${order}`);
   }
-  const byKey = new Map(elements.map((e) => [e.key, e]));
+  const byKey = new Map<number, FitElement>();
   const bySig = new Map<string, FitElement[]>();
   for (const e of elements) {
-    const list = bySig.get(e.sig) ?? [];
-    list.push(e);
-    bySig.set(e.sig, list);
+    byKey.set(e.key, e);
+    const list = bySig.get(e.sig);
+    if (list) list.push(e);
+    else bySig.set(e.sig, [e]);
   }
   const gens = ideal.generators;
   const choices = gens.map((g) => bySig.get(ideal.elements[g].sig) ?? []);
