@@ -266,6 +266,7 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
   // Off-axis atoms per shell: every orbit of an off-axis atom under Cₙ has n atoms of one shell.
   const shellCount = shells.list.length;
   if (offAxisCounts.length < shellCount) offAxisCounts = new Int32Array(Math.max(shellCount, 2 * offAxisCounts.length));
+  if (firstHeights.length < shellCount) firstHeights = new Float64Array(Math.max(shellCount, 2 * firstHeights.length));
   const perShell = offAxisCounts;
   perShell.fill(0, 0, shellCount);
   let offAxis = 0;
@@ -275,7 +276,14 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
     const z = y[3 * i + 2];
     const h = x * d[0] + v * d[1] + z * d[2];
     if (x * x + v * v + z * z - h * h > tol * tol) {
-      perShell[shells.shellOf[i]]++;
+      const s = shells.shellOf[i];
+      // A shell of two off-axis atoms: a rotation about d must swap them, and rotations keep
+      // the height along d, so their heights must agree within tol (inversion pairs seldom do).
+      if (shells.list[s].length === 2) {
+        if (perShell[s] === 0) firstHeights[s] = h;
+        else if (Math.abs(h - firstHeights[s]) > tol) return [];
+      }
+      perShell[s]++;
       offAxis++;
     }
   }
@@ -312,8 +320,9 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
   return out;
 }
 
-/** Scratch for the per-shell counts of {@link possibleOrders}. */
+/** Scratch for the per-shell counts and first heights of {@link possibleOrders}. */
 let offAxisCounts = new Int32Array(64);
+let firstHeights = new Float64Array(64);
 
 /** Scratch for {@link possibleOrders} (the engine is synchronous, so one buffer suffices). */
 let orderKeys = new Float64Array(256);
