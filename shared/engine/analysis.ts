@@ -229,11 +229,11 @@ function sortedOperations(a: Analysis): readonly SymOp[] {
 }
 
 /**
- * closeUnder(store, gens, t) and its group name, memoised across tolerances in the trie node of
- * `gens`: the ladder asks for
- * the same generator sets at many tolerances. Gives exactly what closeUnder would: the closure
- * visits products in the same order whatever t is, so a success with largest residual w decides
- * every t (success iff t ≥ w), and a failure at a product of residual r decides every t < r.
+ * closeUnder(store, gens, t) and its group name, memoised across tolerances in `node`, the trie
+ * node of `gens`: the ladder asks for the same generator sets at many tolerances. Gives exactly
+ * what closeUnder would: the closure visits products in the same order whatever t is, so a
+ * success with largest residual w decides every t (success iff t ≥ w), and a failure at a
+ * product of residual r decides every t < r.
  */
 function closeAt(a: Analysis, node: ClosureNode, gens: readonly SymOp[], t: number, flip: { above: number }): ClosureOutcome | null {
   // `node` is the generator list's node in a trie keyed by operation keys (no string building).

@@ -8,7 +8,7 @@ export const ABELIAN_D2H_FAMILY = ['D2h', 'D2', 'C2v', 'C2h', 'C2', 'Cs', 'Ci', 
 
 /**
  * Per element, as a string of '1'/'0': does its axis / normal lie along a standard-frame
- * coordinate axis (S: canonical → standard)? Only involutions are asked about.
+ * coordinate axis (S: canonical → standard)? Only the involutions' answers are used.
  */
 function alignedElements(ideal: IdealGroup, S: Mat3): string {
   const St = transpose3(S);
