@@ -83,32 +83,46 @@ export function prepareMolecule(atoms: readonly AtomJson[]): PreparedMolecule {
     kinds[i] = k;
     masses[i] = kindMass[k];
     numbers[i] = kindNumber[k];
-    for (let d = 0; d < 3; d++) {
-      const v = d === 0 ? a.x : d === 1 ? a.y : a.z;
-      if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE) {
-        throw new EngineError(
-          'bad-coordinates',
-          `atom ${i + 1} (${sym}): coordinate ${'xyz'[d]} = ${String(v)} is not a finite number within ±${MAX_COORDINATE} Å`,
-        );
-      }
-      x[3 * i + d] = v;
-    }
+    x[3 * i] = checkedCoordinate(a.x, i, sym, 0);
+    x[3 * i + 1] = checkedCoordinate(a.y, i, sym, 1);
+    x[3 * i + 2] = checkedCoordinate(a.z, i, sym, 2);
   }
   let mt = 0;
-  const centre: [number, number, number] = [0, 0, 0];
+  let cx = 0;
+  let cy = 0;
+  let cz = 0;
   for (let i = 0; i < n; i++) {
-    mt += masses[i];
-    for (let d = 0; d < 3; d++) centre[d] += masses[i] * x[3 * i + d];
+    const m = masses[i];
+    mt += m;
+    cx += m * x[3 * i];
+    cy += m * x[3 * i + 1];
+    cz += m * x[3 * i + 2];
   }
-  for (let d = 0; d < 3; d++) centre[d] /= mt;
+  const centre: [number, number, number] = [cx / mt, cy / mt, cz / mt];
   const y = f64(3 * n);
   let radius = 0;
   for (let i = 0; i < n; i++) {
-    for (let d = 0; d < 3; d++) y[3 * i + d] = x[3 * i + d] - centre[d];
-    radius = Math.max(radius, Math.sqrt(y[3 * i] ** 2 + y[3 * i + 1] ** 2 + y[3 * i + 2] ** 2));
+    const p = x[3 * i] - centre[0];
+    const q = x[3 * i + 1] - centre[1];
+    const r = x[3 * i + 2] - centre[2];
+    y[3 * i] = p;
+    y[3 * i + 1] = q;
+    y[3 * i + 2] = r;
+    radius = Math.max(radius, Math.sqrt(p ** 2 + q ** 2 + r ** 2));
   }
   const closeContact = findCloseContact(y, kinds);
   return { n, symbols, kinds, kindSymbols, masses, atomicNumbers: numbers, centre, y, radius, closeContact };
+}
+
+/** A coordinate as given, checked: a finite number within ±MAX_COORDINATE. @throws EngineError('bad-coordinates'). */
+function checkedCoordinate(v: unknown, i: number, sym: string, d: number): number {
+  if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE) {
+    throw new EngineError(
+      'bad-coordinates',
+      `atom ${i + 1} (${sym}): coordinate ${'xyz'[d]} = ${String(v)} is not a finite number within ±${MAX_COORDINATE} Å`,
+    );
+  }
+  return v;
 }
 
 function findCloseContact(y: Float64Array, kinds: Int32Array): PreparedMolecule['closeContact'] {
