@@ -56,7 +56,11 @@ export async function eachStructure(
         outcome = { entry: { name: m.name, inputFile: m.sourceFile, frameIndex: m.frameIndex, error: message }, failure: e.message };
       }
     }
-    if (json) out.write(`${k > 0 ? ',' : ''}\n${JSON.stringify(outcome.entry)}`);
+    if (json) {
+      // Written as two pieces: joining them would copy the entry's JSON once more.
+      out.write(k > 0 ? ',\n' : '\n');
+      out.write(JSON.stringify(outcome.entry));
+    }
     else outcomes.push(outcome);
     k++;
   }
