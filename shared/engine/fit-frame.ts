@@ -248,11 +248,18 @@ function frameFromImages(ideal: IdealGroup, images: readonly FitElement[]): { Q:
   }
   const unsigned = pairs.map((p, i) => (p.signed ? -1 : i)).filter((i) => i >= 0);
   let best: { Q: Mat3; error: number } | null = null;
-  const combos = pairs.length === 0 ? 1 : 1 << unsigned.length;
+  // One direction only: the frame below does not depend on the senses, so one try suffices.
+  const parallel = pairs.length > 0 && pairs.every((p) => Math.abs(dot3(p.a0, pairs[0].a0)) > 1 - 1e-9);
+  const combos = pairs.length === 0 || parallel ? 1 : 1 << unsigned.length;
   for (let mask = 0; mask < combos; mask++) {
     let Q: Mat3;
     if (pairs.length === 0) Q = identity3();
-    else {
+    else if (parallel) {
+      // one direction only: any rotation taking it onto the found axis will do
+      const b = pairs[0].b;
+      const t = dot3(pairs[0].a0, [0, 0, 1]) > 0 ? b : ([-b[0], -b[1], -b[2]] as Vec3);
+      Q = basisWithZ(t);
+    } else {
       const s = [0, 0, 0, 0, 0, 0, 0, 0, 0];
       pairs.forEach((p, i) => {
         const k = unsigned.indexOf(i);
@@ -260,12 +267,6 @@ function frameFromImages(ideal: IdealGroup, images: readonly FitElement[]): { Q:
         for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) s[3 * r + c] += p.a0[r] * p.b[c] * sign;
       });
       Q = rotationFromCorrelation(s);
-      if (pairs.every((p) => Math.abs(dot3(p.a0, pairs[0].a0)) > 1 - 1e-9)) {
-        // one direction only: any rotation taking it onto the found axis will do
-        const b = pairs[0].b;
-        const t = dot3(pairs[0].a0, [0, 0, 1]) > 0 ? b : ([-b[0], -b[1], -b[2]] as Vec3);
-        Q = basisWithZ(t);
-      }
     }
     let error = 0;
     const stopAt = best ? best.error : Infinity;
