@@ -16,8 +16,8 @@ export interface Outcome {
 
 /**
  * The loop every structure command shares. Runs `handle` on each structure in input order (as
- * the inputs stream in), with a progress line on stderr. A frame that could not be read, or that the engine refuses
- * (EngineError), is printed on stderr as one located line, becomes
+ * the inputs stream in), with a progress line on stderr. A frame that could not be read, or that
+ * the engine refuses (EngineError), is printed on stderr as one located line, becomes
  * `{ name, inputFile, frameIndex, error }` and makes the exit status 1; the other structures go
  * on. Any other error propagates. With `json`, the entries stream to `out` as
  * `{"structures":[...]}` and no outcome is kept (large batches stay out of memory); otherwise the
