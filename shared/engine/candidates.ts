@@ -267,6 +267,12 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
   const shellCount = shells.list.length;
   if (offAxisCounts.length < shellCount) offAxisCounts = new Int32Array(Math.max(shellCount, 2 * offAxisCounts.length));
   if (firstHeights.length < shellCount) firstHeights = new Float64Array(Math.max(shellCount, 2 * firstHeights.length));
+  // One sortable number per off-axis ring atom: element id · 1e7 + height (|height| < 1e6 Å).
+  // When every atom is a ring atom (atoms null) they are written in this same pass.
+  const count = atoms ? atoms.length : n;
+  if (orderKeys.length < count) orderKeys = new Float64Array(Math.max(count, 2 * orderKeys.length));
+  const keys = orderKeys;
+  let m = 0;
   const perShell = offAxisCounts;
   perShell.fill(0, 0, shellCount);
   let offAxis = 0;
@@ -285,24 +291,21 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
       }
       perShell[s]++;
       offAxis++;
+      if (!atoms) keys[m++] = kinds[i] * 1e7 + h;
     }
   }
   if (offAxis === 0) return [2];
   let shellGcd = 0;
   for (let k = 0; k < shellCount && shellGcd !== 1; k++) if (perShell[k] > 0) shellGcd = gcdInt(shellGcd, perShell[k]);
   if (shellGcd === 1) return [];
-  const count = atoms ? atoms.length : n;
-  // One sortable number per off-axis atom: element id · 1e7 + height (|height| < 1e6 Å).
-  if (orderKeys.length < count) orderKeys = new Float64Array(Math.max(count, 2 * orderKeys.length));
-  const keys = orderKeys;
-  let m = 0;
-  for (let k = 0; k < count; k++) {
-    const i = atoms ? atoms[k] : k;
-    const x = y[3 * i];
-    const v = y[3 * i + 1];
-    const z = y[3 * i + 2];
-    const h = x * d[0] + v * d[1] + z * d[2];
-    if (x * x + v * v + z * z - h * h > tol * tol) keys[m++] = kinds[i] * 1e7 + h;
+  if (atoms) {
+    for (const i of atoms) {
+      const x = y[3 * i];
+      const v = y[3 * i + 1];
+      const z = y[3 * i + 2];
+      const h = x * d[0] + v * d[1] + z * d[2];
+      if (x * x + v * v + z * z - h * h > tol * tol) keys[m++] = kinds[i] * 1e7 + h;
+    }
   }
   if (m === 0) return [2];
   const sorted = sortPrefix(keys, m);

@@ -7,7 +7,7 @@ import { continuousSymmetryMeasure } from './csm';
 import { cleanZeros, describe, equivalenceClasses, orientFit } from './describe';
 import { EngineError } from './errors';
 import { formatLength, perceptionNotes, type FlagNote } from './flag-notes';
-import type { FrameFit } from './fit-frame';
+import { toFrame, type FrameFit } from './fit-frame';
 import { hillFormula } from './formula';
 import { groupOrder } from './groups';
 import { superpose } from './kabsch';
@@ -103,17 +103,8 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
   const R: Mat3 = standard ? mul3(S, transpose3(fit.Q)) : identity3();
   const toOut: Mat3 = standard ? identity3() : mul3(fit.Q, transpose3(S));
   const frameRot: Mat3 = standard ? S : fit.Q; // canonical → output
-  const out = f64(3 * n);
-  const W = fit.W;
-  const F = frameRot;
-  for (let i = 0; i < n; i++) {
-    const a = W[3 * i];
-    const b = W[3 * i + 1];
-    const c = W[3 * i + 2];
-    out[3 * i] = F[0] * a + F[1] * b + F[2] * c;
-    out[3 * i + 1] = F[3] * a + F[4] * b + F[5] * c;
-    out[3 * i + 2] = F[6] * a + F[7] * b + F[8] * c;
-  }
+  // frameRot·W, as toFrame writes it (z = Qᵀw with Q = frameRotᵀ).
+  const out = toFrame(fit.W, transpose3(frameRot));
   const centredOut = copyF64(out);
   if (!standard) for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) out[3 * i + d] += mol.centre[d];
   for (let i = 0; i < out.length; i++) if (Math.abs(out[i]) < 1e-11) out[i] = 0;
