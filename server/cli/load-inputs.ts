@@ -33,12 +33,10 @@ export async function* streamInputs(
 ): AsyncGenerator<InputItem, void, undefined> {
   const readOptions = { maxAtoms: options.maxAtoms };
   function* fromFile(label: string, content: Uint8Array): Generator<InputItem, void, undefined> {
-    if (options.frameCounts) {
-      const rs = [...iterateStructures(label, content, readOptions)];
-      for (const r of rs) yield r.ok ? { ok: true, molecule: r.molecule, frameCount: rs.length } : r;
-      return;
-    }
-    for (const r of iterateStructures(label, content, readOptions)) yield r.ok ? { ok: true, molecule: r.molecule, frameCount: 0 } : r;
+    const frames = iterateStructures(label, content, readOptions);
+    const counted = options.frameCounts ? [...frames] : null;
+    const frameCount = counted ? counted.length : 0;
+    for (const r of counted ?? frames) yield r.ok ? { ok: true, molecule: r.molecule, frameCount } : r;
   }
   for (const path of paths) {
     const fileFailure = (message: string): InputItem => ({ ok: false, error: { file: path, frame: 0, line: null, message } });

@@ -88,34 +88,18 @@ export function* iterateStructures(fileName: string, content: string | Uint8Arra
     return;
   }
   const format = detectFormat(fileName, text);
-  let frames: Iterable<ReadResult>;
-  switch (format) {
-    case 'xyz':
-    case 'extxyz':
-      frames = iterateXyz(fileName, text, options);
-      break;
-    case 'mol':
-    case 'sdf':
-      frames = guarded(fileName, () => readMolfile(fileName, text, options));
-      break;
-    case 'pdb':
-      frames = guarded(fileName, () => readPdb(fileName, text, options));
-      break;
-    case 'cml':
-      frames = guarded(fileName, () => readCml(fileName, text, options));
-      break;
-    case 'qcschema':
-      frames = guarded(fileName, () => readQcschema(fileName, text, options));
-      break;
-    default:
-      frames = [
-        failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)'),
-      ];
+  if (format === null) {
+    yield failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)');
+    return;
   }
+  const read = READERS[format];
   // The readers catch their own errors; this is a last guard so that a bug never loses the batch
-  // (the structures handed out before it stay handed out).
+  // (the structures handed out before it stay handed out). A whole-file reader runs inside the
+  // first step, so its throw is caught here too.
+  const it = (function* () {
+    yield* read(fileName, text, options);
+  })();
   let frame = 0;
-  const it = frames[Symbol.iterator]();
   for (;;) {
     let step: IteratorResult<ReadResult>;
     try {
@@ -130,11 +114,13 @@ export function* iterateStructures(fileName: string, content: string | Uint8Arra
   }
 }
 
-/** A whole-file reader's result, or its failure as a one-line message. */
-function guarded(fileName: string, read: () => ReadResult[]): ReadResult[] {
-  try {
-    return read();
-  } catch (e) {
-    return [failure(fileName, 0, null, `could not read the file: ${(e as Error).message.split('\n')[0]}`)];
-  }
-}
+/** The reader of each format: XYZ frame by frame, the others whole. */
+const READERS: Record<InputFormat, (file: string, text: string, options: ReadOptions) => Iterable<ReadResult>> = {
+  xyz: iterateXyz,
+  extxyz: iterateXyz,
+  mol: readMolfile,
+  sdf: readMolfile,
+  pdb: readPdb,
+  cml: readCml,
+  qcschema: readQcschema,
+};
