@@ -116,7 +116,7 @@ export function superpose(
     qc[3 * i + 2] = q[3 * i + 2] - qz;
   }
   const r = rotationFromCorrelation(correlation(pc, qc));
-  const distances = new Array<number>(n);
+  const distances: number[] = []; // pushed, so packed (see mul3)
   let sum = 0;
   for (let i = 0; i < n; i++) {
     const x = pc[3 * i];
@@ -126,7 +126,7 @@ export function superpose(
     const dy = r[3] * x + r[4] * y + r[5] * z - qc[3 * i + 1];
     const dz = r[6] * x + r[7] * y + r[8] * z - qc[3 * i + 2];
     const d2 = dx * dx + dy * dy + dz * dz;
-    distances[i] = Math.sqrt(d2);
+    distances.push(Math.sqrt(d2));
     sum += d2;
   }
   return { rotation: r, rmsd: Math.sqrt(sum / n), distances, centroidP: cp, centroidQ: cq };
