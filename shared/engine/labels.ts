@@ -37,8 +37,12 @@ const Z: Vec3 = [0, 0, 1];
  * Powers are counted counter-clockwise about the sign-canonical axis.
  */
 export function labelElements(name: string, ideal: IdealGroup, S: Mat3): readonly ElementLabel[] {
-  // Most groups reach only a few distinct frames S (discrete choices), so labels are remembered
-  // per group and frame (entries rounded far below any geometric meaning).
+  // Groups whose frame is fixed by their elements reach only a few distinct frames S (discrete
+  // choices), so their labels are remembered per group and frame (entries rounded far below any
+  // geometric meaning). Where the elements leave a free turn (fixed by the inertia axes or a
+  // reference atom, orient.ts), S differs for every structure: an entry would never be used
+  // again and would only keep garbage alive.
+  if (FREE_FRAME.has(groupFamily(name).family)) return computeLabels(name, ideal, S);
   let key = name;
   for (let k = 0; k < 9; k++) key += `,${Math.round(S[k] * 1e12)}`;
   const hit = labelCache.get(key);
@@ -50,6 +54,9 @@ export function labelElements(name: string, ideal: IdealGroup, S: Mat3): readonl
 }
 
 const labelCache = new Map<string, readonly ElementLabel[]>();
+
+/** Families whose elements leave the standard frame a free rotation (about z; any for C1 and Ci). */
+const FREE_FRAME: ReadonlySet<string> = new Set(['C1', 'Ci', 'Cs', 'Cn', 'Cnh', 'S2n']);
 
 function computeLabels(name: string, ideal: IdealGroup, S: Mat3): ElementLabel[] {
   const St = transpose3(S);

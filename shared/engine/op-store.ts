@@ -66,7 +66,17 @@ let lastStoreId = 0;
 let lastGeneration = 0;
 const WRAP = 1 << 30;
 
+/**
+ * Keys written to the shared tables by the current store. The next store clears them: the
+ * tables are long-lived, and an operation left in them would stay reachable after its structure
+ * is done (the garbage collector would copy it and promote it to the old generation, where it
+ * waits for a full collection).
+ */
+let denseKeys: number[] = [];
+
 function nextStoreId(): number {
+  for (const key of denseKeys) denseOps[key] = undefined;
+  denseKeys = [];
   if (++lastStoreId >= WRAP) {
     denseOwner.fill(0);
     lastStoreId = 1;
@@ -238,6 +248,7 @@ export function findOp(store: OpStore, key: number): SymOp | undefined {
 function storeOp(store: OpStore, op: SymOp): void {
   store.byKey.set(op.key, op);
   if (store.denseId !== 0) {
+    denseKeys.push(op.key);
     denseOps[op.key] = op;
     denseOwner[op.key] = store.denseId;
   }
