@@ -4,7 +4,7 @@ import { bestLine } from './inertia';
 import type { Vec3 } from './mat3';
 import type { PreparedMolecule } from './molecule';
 import { matchOperation } from './operations';
-import { closeUnder, createOpStore, type OpStore, type SymOp } from './op-store';
+import { DENSE_KEYS, closeUnder, createOpStore, type OpStore, type SymOp } from './op-store';
 import { i32 } from './arena';
 
 /** Tolerance (Å) at which candidate operations are searched: the top of the ladder. */
@@ -63,8 +63,10 @@ interface ClosureOutcome {
   name: string | null;
   worst: number;
   failsBelow: number;
-  /** Keys of the elements (made when a walk first asks whether an operation is in the group). */
+  /** Keys of the elements, for stores without the shared tables (made when first asked; see contains). */
   keys: Set<number> | null;
+  /** The token its elements were last marked with in {@link memberMark} (0: never). */
+  mark: number;
   /** FoundGroup.id, once asked for. */
   id: string | null;
 }
@@ -169,7 +171,7 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   for (; k < ops.length; k++) {
     const op = ops[k];
     if (!(op.residual <= t)) break;
-    if (op === store.identity || (group && (group.keys ??= new Set(group.elements!.map((e) => e.key))).has(op.key))) continue;
+    if (op === store.identity || (group && contains(store, group, op.key))) continue;
     gens.push(op);
     node.children ??= new Map();
     let child = node.children.get(op.key);
@@ -190,6 +192,28 @@ function computeGroupAt(a: Analysis, t: number): FoundGroup {
   a.walk = { ops, index: k, t, group, gens, node, notClosed, flipAbove: flip.above };
   if (!group) return { name: 'C1', order: 1, tolerance: t, elements: [store.identity], notClosed, id: `C1:${store.identity.key}` };
   return new ClosedGroup(group, t, notClosed);
+}
+
+/**
+ * Membership marks for the group a walk holds: key k is in the group whose `mark` equals
+ * `memberMark[k]` and the last token handed out (a new group is marked when first asked about;
+ * an array lookup instead of a hash set per group).
+ */
+const memberMark = new Int32Array(DENSE_KEYS);
+let lastToken = 0;
+
+/** Whether the operation with this key is an element of `group` (a successful closure). */
+function contains(store: OpStore, group: ClosureOutcome, key: number): boolean {
+  if (store.denseId === 0) return (group.keys ??= new Set(group.elements!.map((e) => e.key))).has(key);
+  if (group.mark !== lastToken || lastToken === 0) {
+    if (++lastToken >= 1 << 30) {
+      memberMark.fill(0);
+      lastToken = 1;
+    }
+    group.mark = lastToken;
+    for (const e of group.elements!) memberMark[e.key] = lastToken;
+  }
+  return memberMark[key] === lastToken;
 }
 
 /** A finite group found by the walk; its id is built only when asked for (fits are memoised by it, and most groups met are never fitted). */
@@ -255,9 +279,9 @@ function closeAt(a: Analysis, node: ClosureNode, gens: readonly SymOp[], t: numb
   if (elements) {
     let worst = 0;
     for (const e of elements) if (e.residual > worst) worst = e.residual;
-    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst, keys: null, id: null };
+    outcome = { elements, name: identifyGroup(elements), worst, failsBelow: worst, keys: null, mark: 0, id: null };
   } else {
-    outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, id: null };
+    outcome = { elements: null, name: null, worst: Infinity, failsBelow: failure.residual, keys: null, mark: 0, id: null };
   }
   node.outcome = outcome;
   if (outcome.elements && outcome.name) return outcome;

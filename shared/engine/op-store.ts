@@ -56,7 +56,7 @@ export interface OpStore {
 }
 
 /** Largest key space held in the shared tables (see OpStore.denseId). */
-const DENSE_KEYS = 1 << 16;
+export const DENSE_KEYS = 1 << 16;
 /** The operation last stored under each key, and the id of the store it belongs to. */
 const denseOps: (SymOp | undefined)[] = new Array<SymOp | undefined>(DENSE_KEYS);
 const denseOwner = new Int32Array(DENSE_KEYS);
