@@ -70,12 +70,16 @@ const WRAP = 1 << 30;
  * Keys written to the shared tables by the current store. The next store clears them: the
  * tables are long-lived, and an operation left in them would stay reachable after its structure
  * is done (the garbage collector would copy it and promote it to the old generation, where it
- * waits for a full collection).
+ * waits for a full collection). The owner is cleared too, so that a store still in use finds
+ * its operations in its map.
  */
 let denseKeys: number[] = [];
 
 function nextStoreId(): number {
-  for (const key of denseKeys) denseOps[key] = undefined;
+  for (const key of denseKeys) {
+    denseOps[key] = undefined;
+    denseOwner[key] = 0;
+  }
   denseKeys = [];
   if (++lastStoreId >= WRAP) {
     denseOwner.fill(0);

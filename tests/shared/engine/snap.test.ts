@@ -9,6 +9,8 @@ import { describe, expect, it } from 'vitest';
 import type { StructureResult } from '@shared/contracts/structure';
 import { allowedTargets, EngineError, LADDER_MAX, LADDER_MIN, LADDER_RUNGS, ladder, perceive, pointGroupAt, snap } from '@shared/engine';
 import { analyse } from '@shared/engine/analysis';
+import { ladderRanges } from '@shared/engine/ladder';
+import { findOp } from '@shared/engine/op-store';
 import { prepareMolecule } from '@shared/engine/molecule';
 import { fitElement, residualWithPermutation } from '@shared/engine/operations';
 import { GENERIC_SEEDS, input, mv, orbit, scramble, setDistance } from './helpers';
@@ -255,5 +257,22 @@ describe('found operations', () => {
       checked++;
     }
     expect(checked).toBeGreaterThan(0);
+  });
+});
+
+describe('several structures at once', () => {
+  // Common practice (no source): perception of one structure must not depend on what was
+  // perceived in between. The operation tables are shared by all analyses of small structures
+  // (op-store.ts), and each new analysis clears what the last one wrote there.
+  it('an analysis stays whole while another structure is analysed', () => {
+    const molA = prepareMolecule(scramble(orbit('Oh', GENERIC_SEEDS.slice(0, 2)), 21, 0.003).atoms);
+    const molB = prepareMolecule(scramble(benzene(), 22, 0.004).atoms);
+    const alone = ladderRanges(analyse(molA)).map((r) => [r.found.name, r.from, r.to]);
+    const a = analyse(molA);
+    const b = analyse(molB);
+    expect(ladderRanges(b).map((r) => r.found.name)).toContain('D6h');
+    for (const [key, op] of a.store.byKey) expect(findOp(a.store, key)).toBe(op);
+    expect(ladderRanges(a).map((r) => [r.found.name, r.from, r.to])).toEqual(alone);
+    expect(alone.map((r) => r[0])).toContain('Oh');
   });
 });
