@@ -70,9 +70,7 @@ export function describe(
     const std = exact ?? mul3(mul3(S, e.matrix), St);
     const m = exact ?? (identityOut ? std : mul3(mul3(toOut, std), outT));
     const perm = fit.perms[k];
-    // Pushed, so a packed array of small integers: JSON.stringify writes a holey one 3× slower.
-    const permutation: number[] = [];
-    for (let i = 0; i < perm.length; i++) permutation.push(perm[i]);
+    const permutation = plainCopy(perm);
     const l = labels[k];
     const axis = l.kind === 'identity' || l.kind === 'inversion' ? ([0, 0, 0] as Vec3) : canonicalDirection(apply3(toOut, l.axis));
     return {
@@ -162,6 +160,23 @@ function operationRank(l: ElementLabel): number[] {
     default:
       return [4, PLANE_RANK[l.symbol] ?? 5, 0, 0];
   }
+}
+
+/**
+ * A plain-array copy of a permutation. Short ones are pushed, so the array is packed:
+ * JSON.stringify writes a holey array (new Array(n) filled by index) about 2× slower. Long ones
+ * are preallocated: growing a 10⁵-entry array by push costs 3× the fill.
+ */
+function plainCopy(perm: Int32Array): number[] {
+  const n = perm.length;
+  if (n > 4096) {
+    const out = new Array<number>(n);
+    for (let i = 0; i < n; i++) out[i] = perm[i];
+    return out;
+  }
+  const out: number[] = [];
+  for (let i = 0; i < n; i++) out.push(perm[i]);
+  return out;
 }
 
 /** Entries below 1e-14 in magnitude (rounding noise of exact zeros) set to 0. */
