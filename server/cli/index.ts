@@ -1,6 +1,6 @@
 import { fileURLToPath } from 'node:url';
 import { EXIT_USAGE, UsageError } from './options';
-import { printError } from './output';
+import { EXIT_OUTPUT_CLOSED, OutputClosed, printError } from './output';
 
 /**
  * The `pointfold` command line: `npm run --silent pointfold -- <command> …` (DESIGN.md, "The
@@ -57,7 +57,8 @@ export async function main(argv: string[]): Promise<number> {
 
 /**
  * What a `pointfold` process does: run `main(argv)` and set the exit status — 70 (EX_SOFTWARE)
- * with the stack on stderr when something throws, since that is a bug of ours, not bad input.
+ * with the stack on stderr when something throws, since that is a bug of ours, not bad input;
+ * 141 without a word when the reader of stdout has gone (OutputClosed).
  * Called by server/cli/launch.mjs and when this file is run directly.
  */
 export async function runCommandLine(argv: string[]): Promise<number> {
@@ -68,8 +69,11 @@ export async function runCommandLine(argv: string[]): Promise<number> {
     if (process.env.npm_lifecycle_event === 'pointfold' && process.env.INIT_CWD) process.chdir(process.env.INIT_CWD);
     code = await main(argv);
   } catch (e) {
-    process.stderr.write(`pointfold: internal error: ${(e as Error)?.stack ?? String(e)}\n`);
-    code = 70;
+    if (e instanceof OutputClosed) code = EXIT_OUTPUT_CLOSED;
+    else {
+      process.stderr.write(`pointfold: internal error: ${(e as Error)?.stack ?? String(e)}\n`);
+      code = 70;
+    }
   }
   process.exitCode = code;
   return code;

@@ -86,13 +86,29 @@ export class BufferedOut {
       try {
         off += writeSync(this.fd, bytes, off);
       } catch (e) {
+        const code = (e as NodeJS.ErrnoException).code;
+        if (code === 'EPIPE') throw new OutputClosed();
         // A non-blocking pipe that is full: wait for the reader and retry.
-        if ((e as NodeJS.ErrnoException).code !== 'EAGAIN') throw e;
+        if (code !== 'EAGAIN') throw e;
         Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 5);
       }
     }
   }
 }
+
+/**
+ * The reader of the output has gone (EPIPE), as in `pointfold snap … --json | head`: the command
+ * stops there, with no message and exit status 141 (128 + SIGPIPE, what a shell reports for a
+ * program that a closed pipe stopped), not as an internal error.
+ */
+export class OutputClosed extends Error {
+  constructor() {
+    super('the reader of the output has gone (broken pipe)');
+  }
+}
+
+/** Exit status after {@link OutputClosed}. */
+export const EXIT_OUTPUT_CLOSED = 141;
 
 /** One line on stderr. */
 export function printError(message: string): void {

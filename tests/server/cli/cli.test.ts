@@ -1,10 +1,11 @@
+import { spawn } from 'node:child_process';
 import { copyFileSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { ZipArchive } from 'archiver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readStructures } from '@shared/formats';
-import { runLauncher, SAMPLES, type Run } from './run-cli';
+import { LAUNCHER, ROOT, runLauncher, SAMPLES, type Run } from './run-cli';
 
 /**
  * The command line as DESIGN.md specifies it ("The command line"), run as a child process the way
@@ -184,6 +185,22 @@ describe('bad input and usage', () => {
     const group = await cli(['snap', sample('ligands.xyz'), '--target', 'Q7']);
     expect([group.status, group.stderr]).toEqual([2, "pointfold snap: --target 'Q7' is not a point group (examples: C2v, D3h, Td)\n"]);
   });
+
+  it('stops without a word, exit 141, when the reader of its output goes away (… | head)', async () => {
+    // Common practice (no source): a program writing into a closed pipe ends as if stopped by
+    // SIGPIPE (status 128 + 13), without an error message.
+    const base = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('PF_')));
+    const child = spawn(process.execPath, [LAUNCHER, 'snap', sample('ligands.xyz'), '--json'], {
+      cwd: ROOT,
+      env: { ...base, PF_CLI_CACHE: join(tmp, 'cli-cache') },
+    });
+    child.stdout.destroy(); // the reader is gone before the first byte is written
+    let stderr = '';
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString('utf8')));
+    const status = await new Promise<number | null>((resolve) => child.on('close', resolve));
+    expect(stderr).not.toMatch(/internal error/);
+    expect(status).toBe(141);
+  }, 60_000);
 
   it('prints help for each command with exit 0', async () => {
     for (const command of ['snap', 'perceive', 'ladder']) {
