@@ -199,9 +199,10 @@ async function loadCli() {
 // A command-line run is short: much of it passes before TurboFan has optimised the engine, and
 // its compiler thread shares the 2 cores of a typical node with the run. Inlining less into each
 // optimised function (V8's default cumulative budget is 920 bytecode bytes) made optimising
-// cheaper and sooner: on 5,000 structures, 7–12 % less CPU time and 2–6 % less wall time, and no
-// slower once warm (tests/bench/cli.bench.ts; DEVELOPERS.md, "Keeping the engine fast"). Set
-// here, before any of our code is compiled, so that every way of starting the CLI gets it.
+// cheaper and sooner: on the bench's 5,000 structures about 8 % less CPU time and 1–4 % less wall
+// time (interleaved runs), and no slower once warm (tests/bench/cli.bench.ts; DEVELOPERS.md,
+// "Keeping the engine fast"). Set here, before any of our code is compiled, so that every way of
+// starting the CLI gets it.
 setFlagsFromString('--max-inlined-bytecode-size-cumulative=250');
 
 let cli;
