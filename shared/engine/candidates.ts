@@ -11,7 +11,7 @@ import {
   type Mat3,
   type Vec3,
 } from './mat3';
-import { matchOperation, probeOperation } from './operations';
+import { gcd, matchOperation, probeOperation } from './operations';
 import { addOperation, closeUnder, exactOperation, findOp, refineOperation, type OpStore, type SymOp } from './op-store';
 import { f64, i32, copyI32 } from './arena';
 
@@ -296,7 +296,7 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
   }
   if (offAxis === 0) return [2];
   let shellGcd = 0;
-  for (let k = 0; k < shellCount && shellGcd !== 1; k++) if (perShell[k] > 0) shellGcd = gcdInt(shellGcd, perShell[k]);
+  for (let k = 0; k < shellCount && shellGcd !== 1; k++) if (perShell[k] > 0) shellGcd = gcd(shellGcd, perShell[k]);
   if (shellGcd === 1) return [];
   if (atoms) {
     for (const i of atoms) {
@@ -314,7 +314,7 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
   for (let k = 1; k <= m; k++) {
     if (k < m && sorted[k] - sorted[k - 1] <= tol) run++;
     else {
-      g = gcdInt(g, run);
+      g = gcd(g, run);
       run = 1;
     }
   }
@@ -341,15 +341,6 @@ function sortPrefix(a: Float64Array, m: number): Float64Array {
       k--;
     }
     a[k + 1] = v;
-  }
-  return a;
-}
-
-function gcdInt(a: number, b: number): number {
-  while (b) {
-    const r = a % b;
-    a = b;
-    b = r;
   }
   return a;
 }

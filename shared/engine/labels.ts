@@ -1,6 +1,7 @@
 import type { OperationJson } from '../contracts/structure';
 import { groupFamily, type IdealGroup } from './groups';
 import { axisAngle3, canonicalDirection, dot3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { gcd } from './operations';
 
 /** Label and geometry of one element in the standard frame. */
 export interface ElementLabel {
@@ -12,15 +13,6 @@ export interface ElementLabel {
   axis: Vec3;
   /** Plane class for reflections. */
   planeKind?: 'σh' | 'σv' | 'σd' | 'σ';
-}
-
-function gcd(a: number, b: number): number {
-  while (b) {
-    const r = a % b;
-    a = b;
-    b = r;
-  }
-  return a;
 }
 
 const near = (a: Vec3, b: Vec3) => Math.abs(Math.abs(dot3(a, b)) - 1) < 1e-6;

@@ -47,7 +47,8 @@ export function typeSignature(t: Pick<OpType, 'det' | 'j' | 'order'>): string {
 
 const signatures = new Map<number, string>();
 
-function gcd(a: number, b: number): number {
+/** Greatest common divisor of two non-negative integers. */
+export function gcd(a: number, b: number): number {
   while (b) {
     const r = a % b;
     a = b;
