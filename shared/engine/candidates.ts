@@ -108,11 +108,12 @@ export function generateCandidates(store: OpStore): void {
     if ((pairShells.length >= 1 && pairShells[0].length > 3) || pairShells.length >= 2 || highOrderAxes.length > 40) break;
   }
 
-  const ringAtoms = n <= 4000 ? null : shells.list.slice(0, 8).flat();
+  // Rings are read from all atoms, or in large structures from the 8 smallest shells only.
+  const ringShells = n <= 4000 ? Infinity : 8;
   for (const a of highOrderAxes) {
     const d = normalize3(a);
     if (!d || !once(99, d)) continue;
-    testAxis(d, possibleOrders(store, d, shells, ringAtoms));
+    testAxis(d, possibleOrders(store, d, shells, ringShells));
     testMirror(d);
   }
   for (const shell of pairShells) {
@@ -260,17 +261,16 @@ export const MAX_AXIS_ORDER = 32;
  * by sorting heights; first, the same divisibility is required of each shell's off-axis atoms
  * (O(N), no sort), which already rules out most directions of low-symmetry structures.
  */
-function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[] | null): number[] {
+function possibleOrders(store: OpStore, d: Vec3, shells: Shells, ringShells: number): number[] {
   const { y, kinds, n } = store.mol;
   const tol = store.tol;
   // Off-axis atoms per shell: every orbit of an off-axis atom under Cₙ has n atoms of one shell.
   const shellCount = shells.list.length;
   if (offAxisCounts.length < shellCount) offAxisCounts = new Int32Array(Math.max(shellCount, 2 * offAxisCounts.length));
   if (firstHeights.length < shellCount) firstHeights = new Float64Array(Math.max(shellCount, 2 * firstHeights.length));
-  // One sortable number per off-axis ring atom: element id · 1e7 + height (|height| < 1e6 Å).
-  // When every atom is a ring atom (atoms null) they are written in this same pass.
-  const count = atoms ? atoms.length : n;
-  if (orderKeys.length < count) orderKeys = new Float64Array(Math.max(count, 2 * orderKeys.length));
+  // One sortable number per off-axis ring atom (an atom of the first `ringShells` shells):
+  // element id · 1e7 + height (|height| < 1e6 Å).
+  if (orderKeys.length < n) orderKeys = new Float64Array(Math.max(n, 2 * orderKeys.length));
   const keys = orderKeys;
   let m = 0;
   const perShell = offAxisCounts;
@@ -291,22 +291,13 @@ function possibleOrders(store: OpStore, d: Vec3, shells: Shells, atoms: number[]
       }
       perShell[s]++;
       offAxis++;
-      if (!atoms) keys[m++] = kinds[i] * 1e7 + h;
+      if (s < ringShells) keys[m++] = kinds[i] * 1e7 + h;
     }
   }
   if (offAxis === 0) return [2];
   let shellGcd = 0;
   for (let k = 0; k < shellCount && shellGcd !== 1; k++) if (perShell[k] > 0) shellGcd = gcd(shellGcd, perShell[k]);
   if (shellGcd === 1) return [];
-  if (atoms) {
-    for (const i of atoms) {
-      const x = y[3 * i];
-      const v = y[3 * i + 1];
-      const z = y[3 * i + 2];
-      const h = x * d[0] + v * d[1] + z * d[2];
-      if (x * x + v * v + z * z - h * h > tol * tol) keys[m++] = kinds[i] * 1e7 + h;
-    }
-  }
   if (m === 0) return [2];
   const sorted = sortPrefix(keys, m);
   let g = 0;
