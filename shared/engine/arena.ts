@@ -8,10 +8,16 @@
  *
  * The arrays share their `.buffer`: do not post them to another thread or wrap their buffer
  * (results leave the engine as plain arrays).
+ *
+ * Blocks are 64 KiB, below the C allocator's threshold for giving a request its own memory
+ * mapping (128 KiB): a freed block's memory is then handed out again, already paged in. With
+ * 1 MiB blocks every block was fresh memory, and on the development machine (a virtual machine
+ * where a page fault costs about 18 µs) the 5,000-structure bench file took ~11,000 more page
+ * faults, about a tenth of its run time (DEVELOPERS.md, "Keeping the engine fast").
  */
 
 /** Size of one block (bytes). Larger requests get their own typed array. */
-const BLOCK_BYTES = 1 << 20;
+const BLOCK_BYTES = 1 << 16;
 
 let f64Block = new Float64Array(0);
 let f64Next = 0;
