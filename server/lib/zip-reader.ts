@@ -1,5 +1,5 @@
 import { basename } from 'node:path';
-import yauzl from 'yauzl';
+import type * as Yauzl from 'yauzl';
 import { DomainError } from '../errors';
 
 /**
@@ -59,13 +59,22 @@ export function sanitizeEntryName(raw: string): string {
 
 const mib = (n: number) => `${(n / (1024 * 1024)).toFixed(n < 10 * 1024 * 1024 ? 1 : 0)} MiB`;
 
-function openZip(source: Buffer | string): Promise<yauzl.ZipFile> {
-  const options: yauzl.Options = { lazyEntries: true, decodeStrings: false, validateEntrySizes: true, autoClose: true };
-  return new Promise((resolve, reject) => {
-    const done = (err: Error | null, zip?: yauzl.ZipFile) => (err || !zip ? reject(err ?? new Error('no archive')) : resolve(zip));
+/**
+ * yauzl, loaded when the first archive is opened: the command line reads archives seldom, and
+ * loading yauzl at start cost every run about 20 ms.
+ */
+let yauzlModule: Promise<typeof Yauzl> | null = null;
+const loadYauzl = () => (yauzlModule ??= import('yauzl').then((m) => (m as { default?: typeof Yauzl }).default ?? m));
+
+async function openZip(source: Buffer | string): Promise<{ zip: Yauzl.ZipFile; yauzl: typeof Yauzl }> {
+  const yauzl = await loadYauzl();
+  const options: Yauzl.Options = { lazyEntries: true, decodeStrings: false, validateEntrySizes: true, autoClose: true };
+  const zip = await new Promise<Yauzl.ZipFile>((resolve, reject) => {
+    const done = (err: Error | null, zip?: Yauzl.ZipFile) => (err || !zip ? reject(err ?? new Error('no archive')) : resolve(zip));
     if (typeof source === 'string') yauzl.open(source, options, done);
     else yauzl.fromBuffer(source, options, done);
   });
+  return { zip, yauzl };
 }
 
 /**
@@ -82,9 +91,10 @@ export async function readZip(source: Buffer | string, limits: ZipLimits = {}): 
   const label = typeof source === 'string' ? basename(source) : (limits.label ?? 'archive.zip');
   const fail = (code: 'too-large' | 'bad-request', message: string) => new DomainError(code, `${label}: ${message}`);
 
-  let zip: yauzl.ZipFile;
+  let zip: Yauzl.ZipFile;
+  let yauzl: typeof Yauzl;
   try {
-    zip = await openZip(source);
+    ({ zip, yauzl } = await openZip(source));
   } catch (e) {
     throw fail('bad-request', `not a readable ZIP archive (${(e as Error).message})`);
   }
@@ -111,7 +121,7 @@ export async function readZip(source: Buffer | string, limits: ZipLimits = {}): 
       settled = true;
       resolve(out);
     });
-    zip.on('entry', (entry: yauzl.Entry) => {
+    zip.on('entry', (entry: Yauzl.Entry) => {
       if (settled) return;
       const raw = yauzl.getFileNameLowLevel(entry.generalPurposeBitFlag, entry.fileNameRaw, entry.extraFields, false);
       const isDir = raw.endsWith('/');
