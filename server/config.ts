@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * Environment configuration, validated once at start-up. Defaults run everything on one machine

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { atomSchema, flagCodeSchema, structureResultSchema } from './structure';
 import { snapSettingsSchema, targetPolicySchema } from './settings';
 import { describeTemplateProblems, validateTemplate } from '../formats/template';

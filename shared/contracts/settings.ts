@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Output formats a batch can write. `unique` = symmetry-unique atoms with the group. */
 export const outputFormats = ['xyz', 'extxyz', 'mol', 'qcschema', 'unique'] as const;

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * The per-structure result contract: what `pointfold snap --json` prints, what the worker stores

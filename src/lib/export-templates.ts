@@ -1,5 +1,5 @@
 import { queryOptions } from '@tanstack/react-query';
-import { z } from 'zod';
+import * as z from 'zod';
 import { exportTemplateSchema, type ExportTemplateDto } from '@shared/contracts/api';
 import { apiFetch } from './api-client';
 import { queryKeys } from './query-keys';

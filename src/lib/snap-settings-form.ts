@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { snapSettingsSchema, type SnapSettings } from '@shared/contracts/settings';
 
 /**

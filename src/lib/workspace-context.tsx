@@ -1,5 +1,5 @@
 import { createContext, useContext } from 'react';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { Role, userSchema, workspaceSchema } from '@shared/contracts/api';
 
 /**

@@ -1,5 +1,5 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AppDeps } from '../../app';
 import { DomainError } from '../../errors';
 import { requireAuth } from '../../middleware/authenticate';

@@ -1,5 +1,5 @@
 import { performance } from 'node:perf_hooks';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type {
   batchDetailSchema,
   batchListQuerySchema,

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { In } from 'typeorm';
-import { z } from 'zod';
+import * as z from 'zod';
 import { devMailMessageSchema } from '@shared/contracts/api';
 import type { AppDeps } from '../../app';
 import { DomainError, notFound } from '../../errors';

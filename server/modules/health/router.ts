@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { Router } from 'express';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { healthSchema } from '@shared/contracts/api';
 import type { AppDeps } from '../../app';
 import { liveWorkerCount } from './heartbeat';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { reviewRequestSchema } from '@shared/contracts/api';
 import type { AppDeps } from '../../app';
 import { createBatchRepository } from '../batches/repository';

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { reviewEventSchema, reviewRequestSchema } from '@shared/contracts/api';
 import { DomainError, notFound } from '../../errors';
 import { recordAudit } from '../audit/service';

@@ -1,5 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { batchTemplateIdsSchema, type ExportTemplateDto, type exportTemplateCreateSchema, type exportTemplateUpdateSchema } from '@shared/contracts/api';
 import { badRequest, DomainError, notFound } from '../../errors';
 import { recordAudit } from '../audit/service';

@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { In, type DataSource, type EntityManager } from 'typeorm';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { apiTokenSchema } from '@shared/contracts/api';
 import { notFound } from '../../errors';
 import { hashToken } from '../../middleware/authenticate';

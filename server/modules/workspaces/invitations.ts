@@ -1,6 +1,6 @@
 import { createHmac, timingSafeEqual } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import { z } from 'zod';
+import * as z from 'zod';
 import { invitationCreateSchema, invitationPeekSchema, invitationSchema, type Role } from '@shared/contracts/api';
 import { publicUrl, type Config } from '../../config';
 import { DomainError, notFound, forbidden } from '../../errors';

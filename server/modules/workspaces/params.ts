@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Route parameters, validated at the edge like bodies and queries. */
 export const slugSchema = z.string().regex(/^[a-z0-9][a-z0-9-]{0,63}$/, 'not a workspace slug');

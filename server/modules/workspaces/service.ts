@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { meSchema, memberSchema, workspaceSchema, workspaceUpdateSchema, type Role } from '@shared/contracts/api';
 import { snapSettingsSchema } from '@shared/contracts/settings';
 import { DomainError, forbidden, notFound } from '../../errors';

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { batchStatusSchema, structureStatusSchema } from '@shared/contracts/api';
 import { cx } from '@/lib/cx';
 

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { reviewStateSchema } from '@shared/contracts/api';
 import type { FlagCode } from '@shared/contracts/structure';
 import type { BadgeTone } from '@/components/ui/badge';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { SnapSettings } from '@shared/contracts/settings';
 import { snapSettingsFormSchema, type SnapSettingsFormValues } from '@/lib/snap-settings-form';
 

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { z } from 'zod';
+import * as z from 'zod';
 import { ApiError, apiFetch, withQuery } from '@/lib/api-client';
 import { formatAngstrom, percent, splitGroup, spokenGroup } from '@/lib/format';
 import { normaliseGroup, schoenfliesPattern } from '@/lib/snap-settings-form';

@@ -4,7 +4,7 @@
  * shapes and plausible sizes. (Reference geometries for the pure helpers are in the tests that
  * use them, each with its source.)
  */
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { batchDetailSchema, StructureDetail, StructureRow } from '@shared/contracts/api';
 import type { StructureResult } from '@shared/contracts/structure';
 import { snapSettingsSchema } from '@shared/contracts/settings';

@@ -1,5 +1,5 @@
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
-import { z } from 'zod';
+import * as z from 'zod';
 import { page, structureListQuerySchema, structureRowSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { batchQueryOptions, isLive, LIVE_INTERVAL, type BatchDetail } from './get-batch';

@@ -1,5 +1,5 @@
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { batchDetailSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 

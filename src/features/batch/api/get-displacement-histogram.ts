@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { displacementHistogramSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { batchQueryOptions, isLive, LIVE_INTERVAL, type BatchDetail } from './get-batch';

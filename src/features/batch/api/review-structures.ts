@@ -1,5 +1,5 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { reviewRequestSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { batchQueryOptions } from './get-batch';

@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { z } from 'zod';
+import * as z from 'zod';
 import { devMailMessageSchema } from '@shared/contracts/api';
 import { apiFetch, isApiError } from '@/lib/api-client';
 import { settingsKeys, workspacePath } from './paths';

@@ -1,5 +1,5 @@
 import { queryOptions, useSuspenseQuery } from '@tanstack/react-query';
-import { z } from 'zod';
+import * as z from 'zod';
 import { invitationSchema } from '@shared/contracts/api';
 import { apiFetch } from '@/lib/api-client';
 import { settingsKeys, workspacePath } from './paths';

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { AtomJson, transformSchema } from '@shared/contracts/structure';
 import { atomicWeight, covalentRadius, normalizeElement } from '@shared/elements';
 

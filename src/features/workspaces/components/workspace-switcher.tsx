@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type * as z from 'zod';
 import type { meSchema } from '@shared/contracts/api';
 import { inputClass } from '@/components/ui/field';
 import { cx } from '@/lib/cx';
