@@ -65,29 +65,114 @@ export function decodeText(content: string | Uint8Array): { ok: true; text: stri
   return { ok: true, text };
 }
 
+/** Bytes decoded at a time when text is read from bytes ({@link checkText}, {@link LineReader}). */
+export const TEXT_WINDOW_BYTES = 1 << 16;
+
+const NOT_TEXT_NUL = 'not a text file (it contains NUL bytes)';
+const NOT_TEXT_UTF8 = 'not a text file (it is not valid UTF-8)';
+
+/** Whether the bytes start with a UTF-8 byte-order mark. */
+function hasBom(bytes: Uint8Array): boolean {
+  return bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+}
+
+/**
+ * What {@link decodeText} would decide about bytes, without keeping their text: valid (UTF-8,
+ * no NUL; `blank` when the text would be white space only) or the same message. Decodes window
+ * by window and drops each window's text, so a large file never exists as one string.
+ */
+export function checkText(bytes: Uint8Array, windowBytes = TEXT_WINDOW_BYTES): { ok: true; blank: boolean } | { ok: false; message: string } {
+  if (bytes.indexOf(0) !== -1) return { ok: false, message: NOT_TEXT_NUL };
+  const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
+  let blank = true;
+  try {
+    for (let at = hasBom(bytes) ? 3 : 0; at < bytes.length; at += windowBytes) {
+      const end = Math.min(at + windowBytes, bytes.length);
+      const window = decoder.decode(bytes.subarray(at, end), { stream: end < bytes.length });
+      if (blank && window.trim() !== '') blank = false;
+    }
+    decoder.decode(); // a multi-byte character cut off by the end of the file throws here
+  } catch {
+    return { ok: false, message: NOT_TEXT_UTF8 };
+  }
+  return { ok: true, blank };
+}
+
+/**
+ * The start of the text of bytes that {@link checkText} accepted: at least their first
+ * `windowBytes` bytes (all of them when fewer), without a byte-order mark.
+ */
+export function headText(bytes: Uint8Array, windowBytes = TEXT_WINDOW_BYTES): string {
+  const start = hasBom(bytes) ? 3 : 0;
+  const end = Math.min(start + windowBytes, bytes.length);
+  return new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes.subarray(start, end), { stream: end < bytes.length });
+}
+
 const NON_SPACE = /\S/g;
 
 /**
  * Reads a text line by line without splitting it up front (a 10⁶-line file costs nothing until
  * read). Accepts LF, CRLF and lone CR line ends. Line numbers are 1-based.
+ *
+ * Given bytes (already accepted by {@link checkText}) it decodes them a window at a time as the
+ * lines are asked for, so that a long file is never one string: the window text holds the rest of
+ * the current window and the previous line (for {@link back}).
  */
 export class LineReader {
+  private text: string;
   private pos = 0;
+  private prevPos = 0;
   /** Number of the line most recently returned by {@link next} (0 before the first). */
   lineNo = 0;
 
   /** Whether the text has any CR at all (most files do not: then no line needs the CR checks). */
   private readonly hasCr: boolean;
 
-  constructor(private readonly text: string) {
-    this.hasCr = text.includes('\r');
+  /** Bytes still to decode (from `at`), and their decoder; null for a text given as a string. */
+  private readonly bytes: Uint8Array | null;
+  private at = 0;
+  private readonly decoder: TextDecoder | null;
+
+  constructor(
+    content: string | Uint8Array,
+    private readonly windowBytes = TEXT_WINDOW_BYTES,
+  ) {
+    if (typeof content === 'string') {
+      this.text = content;
+      this.hasCr = content.includes('\r');
+      this.bytes = null;
+      this.decoder = null;
+    } else {
+      this.text = '';
+      this.hasCr = content.indexOf(13) !== -1;
+      this.bytes = content;
+      this.at = hasBom(content) ? 3 : 0;
+      this.decoder = new TextDecoder('utf-8', { ignoreBOM: true });
+      this.more();
+    }
+  }
+
+  /** Decodes the next window of the bytes onto the text; false when all are decoded. */
+  private more(): boolean {
+    const bytes = this.bytes;
+    if (bytes === null || this.at >= bytes.length) return false;
+    const end = Math.min(this.at + this.windowBytes, bytes.length);
+    const next = this.decoder!.decode(bytes.subarray(this.at, end), { stream: end < bytes.length });
+    this.at = end;
+    // Keep the previous line (back() returns to it); what lies before it is never read again.
+    const keep = this.prevPos;
+    this.text = this.text.slice(keep) + next;
+    this.pos -= keep;
+    this.prevPos = 0;
+    return true;
   }
 
   /** The next line without its line end, or null at the end of the text. */
   next(): string | null {
+    let end = this.text.indexOf('\n', this.pos);
+    while (end === -1 && this.more()) end = this.text.indexOf('\n', this.pos);
     const { text } = this;
     if (this.pos >= text.length) return null;
-    let end = text.indexOf('\n', this.pos);
     let nextPos: number;
     if (end === -1) {
       end = text.length;
@@ -111,15 +196,11 @@ export class LineReader {
     return line;
   }
 
-  private prevPos = 0;
-
   /** The next line without consuming it. */
   peek(): string | null {
-    const pos = this.pos;
-    const lineNo = this.lineNo;
+    // Through back(): next() may decode another window, which moves every position.
     const line = this.next();
-    this.pos = pos;
-    this.lineNo = lineNo;
+    if (line !== null) this.back();
     return line;
   }
 
@@ -138,6 +219,7 @@ export class LineReader {
 
   /** True when every remaining line is blank. */
   restIsBlank(): boolean {
+    while (this.more());
     NON_SPACE.lastIndex = this.pos;
     return !NON_SPACE.test(this.text);
   }

@@ -1,5 +1,5 @@
 import { readCml } from './cml';
-import { decodeText, failure, type ReadOptions } from './common';
+import { checkText, decodeText, failure, headText, type ReadOptions } from './common';
 import { readMolfile } from './molfile';
 import { readPdb } from './pdb';
 import { readQcschema } from './qcschema';
@@ -77,6 +77,26 @@ export function readStructures(fileName: string, content: string | Uint8Array, o
  * only as they are asked for (other formats are read whole, then handed out). Never throws.
  */
 export function* iterateStructures(fileName: string, content: string | Uint8Array, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
+  // An XYZ file given as bytes is checked first and then decoded as its frames are read, never
+  // as one string (a 500 MB trajectory would need another 0.5–1 GB); the other formats, and
+  // texts, are decoded whole. Either way the same checks, in the same order, give the same result.
+  if (typeof content !== 'string') {
+    const checked = checkText(content);
+    if (!checked.ok) {
+      yield failure(fileName, 0, null, checked.message);
+      return;
+    }
+    if (checked.blank) {
+      yield failure(fileName, 0, null, 'empty file');
+      return;
+    }
+    // Detection reads the first 4096 characters; only "mol or sdf?" looks further (whole text).
+    const byHead = detectFormat(fileName, headText(content));
+    if (byHead === 'xyz' || byHead === 'extxyz') {
+      yield* guarded(fileName, () => iterateXyz(fileName, content, options));
+      return;
+    }
+  }
   const decoded = decodeText(content);
   if (!decoded.ok) {
     yield failure(fileName, 0, null, decoded.message);
@@ -92,12 +112,17 @@ export function* iterateStructures(fileName: string, content: string | Uint8Arra
     yield failure(fileName, 0, null, 'unrecognised file format (expected XYZ, extended XYZ, molfile/SD, PDB, CML or QCSchema JSON)');
     return;
   }
-  const read = READERS[format];
-  // The readers catch their own errors; this is a last guard so that a bug never loses the batch
-  // (the structures handed out before it stay handed out). A whole-file reader runs inside the
-  // first step, so its throw is caught here too.
+  yield* guarded(fileName, () => READERS[format](fileName, text, options));
+}
+
+/**
+ * The results of `read()`, with a last guard: the readers catch their own errors, but a bug must
+ * never lose the batch (the structures handed out before it stay handed out). `read` is called
+ * inside the first step, so the throw of a whole-file reader is caught here too.
+ */
+function* guarded(fileName: string, read: () => Iterable<ReadResult>): Generator<ReadResult, void, undefined> {
   const it = (function* () {
-    yield* read(fileName, text, options);
+    yield* read();
   })();
   let frame = 0;
   for (;;) {

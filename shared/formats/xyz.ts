@@ -190,9 +190,9 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
  * The frames of {@link readXyz} one at a time, each read only when it is asked for (a long
  * trajectory is never held in memory as parsed atoms all at once).
  */
-export function* iterateXyz(file: string, text: string, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
+export function* iterateXyz(file: string, content: string | Uint8Array, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
   const maxAtoms = options.maxAtoms ?? DEFAULT_MAX_ATOMS;
-  const r = new LineReader(text);
+  const r = new LineReader(content);
   let frame = 0;
   const elementCache = new Map<string, string | null>();
 
