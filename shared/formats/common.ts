@@ -44,6 +44,9 @@ export function quote(text: string, max = 40): string {
   return `'${t.length > max ? `${t.slice(0, max)}…` : t}'`;
 }
 
+const NOT_TEXT_NUL = 'not a text file (it contains NUL bytes)';
+const NOT_TEXT_UTF8 = 'not a text file (it is not valid UTF-8)';
+
 /**
  * Decode file content to text. Bytes must be valid UTF-8 without NUL bytes (binary files, UTF-16
  * and images fail here with "not a text file"). A UTF-8 byte-order mark is dropped.
@@ -53,14 +56,14 @@ export function decodeText(content: string | Uint8Array): { ok: true; text: stri
   if (typeof content === 'string') {
     text = content;
   } else {
-    if (content.indexOf(0) !== -1) return { ok: false, message: 'not a text file (it contains NUL bytes)' };
+    if (content.indexOf(0) !== -1) return { ok: false, message: NOT_TEXT_NUL };
     try {
       text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(content);
     } catch {
-      return { ok: false, message: 'not a text file (it is not valid UTF-8)' };
+      return { ok: false, message: NOT_TEXT_UTF8 };
     }
   }
-  if (text.includes('\u0000')) return { ok: false, message: 'not a text file (it contains NUL bytes)' };
+  if (text.includes('\u0000')) return { ok: false, message: NOT_TEXT_NUL };
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   return { ok: true, text };
 }
@@ -68,44 +71,86 @@ export function decodeText(content: string | Uint8Array): { ok: true; text: stri
 /** Bytes decoded at a time when text is read from bytes ({@link checkText}, {@link LineReader}). */
 export const TEXT_WINDOW_BYTES = 1 << 16;
 
-const NOT_TEXT_NUL = 'not a text file (it contains NUL bytes)';
-const NOT_TEXT_UTF8 = 'not a text file (it is not valid UTF-8)';
+/**
+ * Bytes read a piece at a time, such as a file read by position: a long file then never needs to
+ * be in memory whole. `read` returns up to `length` bytes from `position` (fewer only at the
+ * end); the array it returns may be reused by its next call.
+ */
+export interface ByteSource {
+  readonly size: number;
+  read(position: number, length: number): Uint8Array;
+}
 
-/** Whether the bytes start with a UTF-8 byte-order mark. */
-function hasBom(bytes: Uint8Array): boolean {
-  return bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+/** Bytes in memory as a {@link ByteSource} (pieces are views, not copies). */
+export function bytesSource(bytes: Uint8Array): ByteSource {
+  return { size: bytes.length, read: (position, length) => bytes.subarray(position, Math.min(position + length, bytes.length)) };
+}
+
+/** All the bytes of a source, in one array. */
+export function allBytes(source: ByteSource): Uint8Array {
+  const out = new Uint8Array(source.size);
+  for (let at = 0; at < source.size; ) {
+    const piece = source.read(at, Math.min(TEXT_WINDOW_BYTES, source.size - at));
+    if (piece.length === 0) return out.subarray(0, at); // the file became shorter
+    out.set(piece, at);
+    at += piece.length;
+  }
+  return out;
+}
+
+const asSource = (content: Uint8Array | ByteSource): ByteSource => (content instanceof Uint8Array ? bytesSource(content) : content);
+
+/** Where the text of a source starts: after a UTF-8 byte-order mark, if any. */
+function textStart(source: ByteSource): number {
+  if (source.size < 3) return 0;
+  const b = source.read(0, 3);
+  return b.length === 3 && b[0] === 0xef && b[1] === 0xbb && b[2] === 0xbf ? 3 : 0;
 }
 
 /**
  * What {@link decodeText} would decide about bytes, without keeping their text: valid (UTF-8,
- * no NUL; `blank` when the text would be white space only) or the same message. Decodes window
- * by window and drops each window's text, so a large file never exists as one string.
+ * no NUL; `blank` when the text would be white space only) or the same message (a NUL byte
+ * anywhere wins over invalid UTF-8). Decodes window by window and drops each window's text, so
+ * a large file never exists as one string.
  */
-export function checkText(bytes: Uint8Array, windowBytes = TEXT_WINDOW_BYTES): { ok: true; blank: boolean } | { ok: false; message: string } {
-  if (bytes.indexOf(0) !== -1) return { ok: false, message: NOT_TEXT_NUL };
+export function checkText(content: Uint8Array | ByteSource, windowBytes = TEXT_WINDOW_BYTES): { ok: true; blank: boolean } | { ok: false; message: string } {
+  const source = asSource(content);
   const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
   let blank = true;
-  try {
-    for (let at = hasBom(bytes) ? 3 : 0; at < bytes.length; at += windowBytes) {
-      const end = Math.min(at + windowBytes, bytes.length);
-      const window = decoder.decode(bytes.subarray(at, end), { stream: end < bytes.length });
+  let valid = true;
+  let at = textStart(source);
+  while (at < source.size) {
+    const piece = source.read(at, Math.min(windowBytes, source.size - at));
+    if (piece.length === 0) break; // the file became shorter
+    at += piece.length;
+    if (piece.indexOf(0) !== -1) return { ok: false, message: NOT_TEXT_NUL };
+    if (!valid) continue; // only a NUL further on could change the answer
+    try {
+      const window = decoder.decode(piece, { stream: at < source.size });
       if (blank && window.trim() !== '') blank = false;
+    } catch {
+      valid = false;
     }
-    decoder.decode(); // a multi-byte character cut off by the end of the file throws here
-  } catch {
-    return { ok: false, message: NOT_TEXT_UTF8 };
   }
-  return { ok: true, blank };
+  if (valid) {
+    try {
+      decoder.decode(); // a multi-byte character cut off by the end of the file throws here
+    } catch {
+      valid = false;
+    }
+  }
+  return valid ? { ok: true, blank } : { ok: false, message: NOT_TEXT_UTF8 };
 }
 
 /**
  * The start of the text of bytes that {@link checkText} accepted: at least their first
  * `windowBytes` bytes (all of them when fewer), without a byte-order mark.
  */
-export function headText(bytes: Uint8Array, windowBytes = TEXT_WINDOW_BYTES): string {
-  const start = hasBom(bytes) ? 3 : 0;
-  const end = Math.min(start + windowBytes, bytes.length);
-  return new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes.subarray(start, end), { stream: end < bytes.length });
+export function headText(content: Uint8Array | ByteSource, windowBytes = TEXT_WINDOW_BYTES): string {
+  const source = asSource(content);
+  const start = textStart(source);
+  const piece = source.read(start, Math.min(windowBytes, source.size - start));
+  return new TextDecoder('utf-8', { ignoreBOM: true }).decode(piece, { stream: start + piece.length < source.size });
 }
 
 const NON_SPACE = /\S/g;
@@ -126,27 +171,28 @@ export class LineReader {
   lineNo = 0;
 
   /** Whether the text has any CR at all (most files do not: then no line needs the CR checks). */
-  private readonly hasCr: boolean;
+  private hasCr: boolean;
 
   /** Bytes still to decode (from `at`), and their decoder; null for a text given as a string. */
-  private readonly bytes: Uint8Array | null;
+  private readonly source: ByteSource | null;
   private at = 0;
   private readonly decoder: TextDecoder | null;
 
   constructor(
-    content: string | Uint8Array,
+    content: string | Uint8Array | ByteSource,
     private readonly windowBytes = TEXT_WINDOW_BYTES,
   ) {
     if (typeof content === 'string') {
       this.text = content;
       this.hasCr = content.includes('\r');
-      this.bytes = null;
+      this.source = null;
       this.decoder = null;
     } else {
       this.text = '';
-      this.hasCr = content.indexOf(13) !== -1;
-      this.bytes = content;
-      this.at = hasBom(content) ? 3 : 0;
+      // Set by each window that has one: a line is only cut once its window has been decoded.
+      this.hasCr = false;
+      this.source = asSource(content);
+      this.at = textStart(this.source);
       this.decoder = new TextDecoder('utf-8', { ignoreBOM: true });
       this.more();
     }
@@ -154,11 +200,13 @@ export class LineReader {
 
   /** Decodes the next window of the bytes onto the text; false when all are decoded. */
   private more(): boolean {
-    const bytes = this.bytes;
-    if (bytes === null || this.at >= bytes.length) return false;
-    const end = Math.min(this.at + this.windowBytes, bytes.length);
-    const next = this.decoder!.decode(bytes.subarray(this.at, end), { stream: end < bytes.length });
-    this.at = end;
+    const source = this.source;
+    if (source === null || this.at >= source.size) return false;
+    const piece = source.read(this.at, Math.min(this.windowBytes, source.size - this.at));
+    if (piece.length === 0) return false; // the file became shorter
+    this.at += piece.length;
+    const next = this.decoder!.decode(piece, { stream: this.at < source.size });
+    if (!this.hasCr && next.includes('\r')) this.hasCr = true;
     // Keep the previous line (back() returns to it); what lies before it is never read again.
     const keep = this.prevPos;
     this.text = this.text.slice(keep) + next;

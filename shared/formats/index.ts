@@ -5,7 +5,7 @@
  * Pure TypeScript (no Node or DOM APIs).
  */
 export * from './types';
-export { DEFAULT_MAX_ATOMS, MAX_ABS_COORDINATE, type ReadOptions } from './common';
+export { DEFAULT_MAX_ATOMS, MAX_ABS_COORDINATE, type ByteSource, type ReadOptions } from './common';
 export { detectFormat, iterateStructures, readStructures } from './read';
 export { OUTPUT_EXTENSIONS, VERIFY_TOLERANCE, outputFileName, verifyWritten, writeStructure } from './write';
 export { BOHR_IN_ANGSTROM } from './qcschema';

@@ -1,5 +1,5 @@
 import { readCml } from './cml';
-import { checkText, decodeText, failure, headText, type ReadOptions } from './common';
+import { allBytes, checkText, decodeText, failure, headText, type ByteSource, type ReadOptions } from './common';
 import { readMolfile } from './molfile';
 import { readPdb } from './pdb';
 import { readQcschema } from './qcschema';
@@ -74,9 +74,14 @@ export function readStructures(fileName: string, content: string | Uint8Array, o
 
 /**
  * The structures of {@link readStructures} one at a time: the frames of an XYZ file are read
- * only as they are asked for (other formats are read whole, then handed out). Never throws.
+ * only as they are asked for (other formats are read whole, then handed out). `content` may also
+ * be a {@link ByteSource} (a file read piece by piece). Never throws.
  */
-export function* iterateStructures(fileName: string, content: string | Uint8Array, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
+export function* iterateStructures(
+  fileName: string,
+  content: string | Uint8Array | ByteSource,
+  options: ReadOptions = {},
+): Generator<ReadResult, void, undefined> {
   // An XYZ file given as bytes is checked first and then decoded as its frames are read, never
   // as one string (a 500 MB trajectory would need another 0.5–1 GB); the other formats, and
   // texts, are decoded whole. Either way the same checks, in the same order, give the same result.
@@ -96,6 +101,7 @@ export function* iterateStructures(fileName: string, content: string | Uint8Arra
       yield* guarded(fileName, () => iterateXyz(fileName, content, options));
       return;
     }
+    if (!(content instanceof Uint8Array)) content = allBytes(content);
   }
   const decoded = decodeText(content);
   if (!decoded.ok) {

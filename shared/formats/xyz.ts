@@ -15,6 +15,7 @@ import {
   quote,
   splitFields,
   tooManyAtoms,
+  type ByteSource,
   type ReadOptions,
 } from './common';
 import type { ReadResult } from './types';
@@ -190,7 +191,7 @@ export function readXyz(file: string, text: string, options: ReadOptions = {}): 
  * The frames of {@link readXyz} one at a time, each read only when it is asked for (a long
  * trajectory is never held in memory as parsed atoms all at once).
  */
-export function* iterateXyz(file: string, content: string | Uint8Array, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
+export function* iterateXyz(file: string, content: string | Uint8Array | ByteSource, options: ReadOptions = {}): Generator<ReadResult, void, undefined> {
   const maxAtoms = options.maxAtoms ?? DEFAULT_MAX_ATOMS;
   const r = new LineReader(content);
   let frame = 0;

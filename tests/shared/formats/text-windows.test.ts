@@ -1,6 +1,6 @@
 /**
- * Reading text from bytes a window at a time (LineReader over bytes, checkText, headText) must
- * give exactly what decoding the whole file first gives. The references are outside these
+ * Reading text from bytes a window at a time (LineReader over bytes or a ByteSource, checkText,
+ * headText) must give exactly what decoding the whole file first gives. The references are outside these
  * helpers: UTF-8 as Node's Buffer encodes it and a fatal TextDecoder decodes it whole (WHATWG
  * Encoding standard), String.prototype.trim for "blank" (ECMA-262 white space), and the lines as
  * String.prototype.split cuts the decoded text at CRLF, LF and lone CR. Windows of 1–7 bytes
@@ -9,10 +9,27 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { checkText, decodeText, headText, LineReader, TEXT_WINDOW_BYTES } from '@shared/formats/common';
-import { readStructures } from '@shared/formats/read';
+import { checkText, decodeText, headText, LineReader, TEXT_WINDOW_BYTES, type ByteSource } from '@shared/formats/common';
+import { iterateStructures, readStructures } from '@shared/formats/read';
 
 const utf8 = (text: string) => new Uint8Array(Buffer.from(text, 'utf8'));
+
+/**
+ * Bytes read as a file is (a ByteSource): each read lands in one buffer that the next read
+ * overwrites, so a reader that kept a piece instead of decoding it at once would see other bytes.
+ */
+function fileLike(bytes: Uint8Array): ByteSource {
+  const buffer = new Uint8Array(bytes.length + 8);
+  return {
+    size: bytes.length,
+    read(position, length) {
+      const n = Math.max(0, Math.min(length, bytes.length - position));
+      buffer.fill(0x78); // 'x' where the previous piece was
+      buffer.set(bytes.subarray(position, position + n));
+      return buffer.subarray(0, n);
+    },
+  };
+}
 
 /** Pieces of text that meet every case of the line splitter and the decoder. */
 const piece = fc.constantFrom('\n', '\r\n', '\r', ' ', '\t', '3', 'C 0.5 -1.25 2', 'é', 'σv', 'C∞v', '😀', '\u00a0', '\u2028', 'x', '\ufeff');
@@ -83,6 +100,7 @@ describe('LineReader over bytes', () => {
         if (!decoded.ok) return;
         const expected = drive(modelReader(decoded.text), steps);
         expect(drive(new LineReader(bytes, windowBytes), steps)).toEqual(expected);
+        expect(drive(new LineReader(fileLike(bytes), windowBytes), steps)).toEqual(expected);
         expect(drive(new LineReader(decoded.text), steps)).toEqual(expected);
       }),
       { seed: 4242, numRuns: 600 },
@@ -112,12 +130,14 @@ describe('checkText and headText', () => {
       fc.property(bytesOf, fc.integer({ min: 1, max: 7 }), (bytes, windowBytes) => {
         const whole = decodeText(bytes);
         const checked = checkText(bytes, windowBytes);
+        expect(checkText(fileLike(bytes), windowBytes)).toEqual(checked);
         if (!whole.ok) {
           expect(checked).toEqual({ ok: false, message: whole.message });
           return;
         }
         expect(checked).toEqual({ ok: true, blank: whole.text.trim() === '' });
         const head = headText(bytes, windowBytes);
+        expect(headText(fileLike(bytes), windowBytes)).toBe(head);
         expect(whole.text.startsWith(head)).toBe(true);
         // At least the first window's characters (a character cut by its end comes with the next).
         expect(utf8(head).length).toBeGreaterThanOrEqual(Math.min(windowBytes, utf8(whole.text).length) - 3);
@@ -162,6 +182,7 @@ describe('readStructures on bytes', () => {
     for (const name of ['big.xyz', 'big.extxyz', 'no-extension']) {
       const fromBytes = readStructures(name, bytes);
       expect(fromBytes).toEqual(readStructures(name, text));
+      expect([...iterateStructures(name, fileLike(bytes))]).toEqual(fromBytes);
       expect(fromBytes.filter((r) => !r.ok).length).toBeGreaterThan(10);
       expect(fromBytes.filter((r) => r.ok).length).toBeGreaterThan(1900);
     }
@@ -176,6 +197,7 @@ describe('readStructures on bytes', () => {
     expect(sdf.indexOf('$$$$')).toBeGreaterThan(4096);
     for (const name of ['x', 'x.sdf']) {
       expect(readStructures(name, utf8(sdf))).toEqual(readStructures(name, sdf));
+      expect([...iterateStructures(name, fileLike(utf8(sdf)))]).toEqual(readStructures(name, sdf));
       expect(readStructures(name, utf8(sdf)).filter((r) => r.ok)).toHaveLength(2);
     }
   });
