@@ -1,4 +1,4 @@
-import { idealGroup, subgroupsOf, type IdealGroup } from './groups';
+import { compareMemberLists, idealGroup, subgroupsOf, type IdealGroup } from './groups';
 import { identifyGroup } from './identify';
 import { mul3, transpose3, type Mat3 } from './mat3';
 import { labelElements } from './labels';
@@ -51,7 +51,7 @@ export function computationalSubgroup(
         (a, b) =>
           Number(b.aligned) - Number(a.aligned) ||
           b.c.proper - a.c.proper ||
-          a.c.members.join(',').localeCompare(b.c.members.join(',')),
+          compareMemberLists(a.c.members, b.c.members),
       );
     const chosen = top[0].c;
     const alternatives = [...new Set(top.map((t) => t.c.name))].filter((n) => n !== chosen.name);
