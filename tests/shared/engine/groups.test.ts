@@ -6,9 +6,10 @@
  * Applications of Group Theory*, 3rd ed. 1990, App. IIA) — values from memory there and
  * recomputed there by an independent closure script.
  */
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { groupOrder, isKnownGroup, parseGroupName } from '@shared/engine';
-import { idealGroup, subgroupsOf } from '@shared/engine/groups';
+import { compareMemberLists, idealGroup, subgroupsOf } from '@shared/engine/groups';
 import { identifyGroup } from '@shared/engine/identify';
 import { det3, frobeniusDistance3, identity3, improper3, mul3, transpose3 } from '@shared/engine/mat3';
 import { computationalSubgroup } from '@shared/engine/subgroups';
@@ -109,5 +110,19 @@ describe('group names', () => {
     expect(names.has('Td')).toBe(false);
     // Lagrange: every subgroup order divides 24.
     for (const s of subgroupsOf('D6h')) expect(24 % s.members.length).toBe(0);
+  });
+});
+
+describe('order of subgroup member lists', () => {
+  // The engine sorts subgroups by their members' comma-joined text with a plain character
+  // comparison; the order must be the one the platform's collator (ICU, through localeCompare)
+  // gives that text, which the engine used before.
+  it('is the collator order of the joined text', () => {
+    fc.assert(
+      fc.property(fc.array(fc.nat(130), { maxLength: 10 }), fc.array(fc.nat(130), { maxLength: 10 }), (a, b) => {
+        expect(Math.sign(compareMemberLists(a, b))).toBe(Math.sign(a.join(',').localeCompare(b.join(','))));
+      }),
+      { seed: 7, numRuns: 2000 },
+    );
   });
 });
