@@ -129,19 +129,18 @@ function smallGrid(coords: Float64Array, kinds: Int32Array, cell: number): Neigh
 }
 
 /**
- * Index of the atom of element `kind` nearest to (x, y, z) within `radius` Å (≤ grid cell), or −1.
- * The squared distance of the hit is left in `out[0]` when `out` is given.
+ * Index of the atom of element `kind` nearest to the point (q[0], q[1], q[2]) within radius q[3]
+ * Å (≤ grid cell), or −1. The squared distance of the hit is left in `out[0]` when `out` is
+ * given. The point comes in an array rather than as numbers: a call that is not inlined boxes
+ * every computed number it passes (a heap allocation per coordinate per query, in the engine's
+ * innermost loop — about 13 KB per structure of the bench).
  */
-export function nearestOfKind(
-  g: NeighbourGrid,
-  x: number,
-  y: number,
-  z: number,
-  kind: number,
-  radius: number,
-  out?: Float64Array,
-): number {
-  if (g.byKind) return nearestInList(g, x, y, z, kind, radius, out);
+export function nearestOfKind(g: NeighbourGrid, q: Float64Array, kind: number, out?: Float64Array): number {
+  if (g.byKind) return nearestInList(g, q, kind, out);
+  const x = q[0];
+  const y = q[1];
+  const z = q[2];
+  const radius = q[3];
   const inv = 1 / g.cell;
   const x0 = Math.floor((x - radius) * inv);
   const x1 = Math.floor((x + radius) * inv);
@@ -178,8 +177,12 @@ export function nearestOfKind(
   return best;
 }
 
-function nearestInList(g: NeighbourGrid, x: number, y: number, z: number, kind: number, radius: number, out?: Float64Array): number {
+function nearestInList(g: NeighbourGrid, q: Float64Array, kind: number, out?: Float64Array): number {
   if (kind >= g.byKind!.length) return -1;
+  const x = q[0];
+  const y = q[1];
+  const z = q[2];
+  const radius = q[3];
   const list = g.byKind![kind];
   const xs = g.xByKind![kind];
   const c = g.coords;

@@ -137,6 +137,8 @@ export interface MatchContext {
 }
 
 const scratch = new Float64Array(1);
+/** The query point and radius handed to nearestOfKind (see there why not as numbers). */
+const query = new Float64Array(4);
 
 /** The partner of atom i under m: nearest atom of i's element to m·yᵢ within tol (−1 if none); squared distance in `out`. */
 function partnerOf(ctx: MatchContext, m: Mat3, i: number, tol: number, out?: Float64Array): number {
@@ -144,15 +146,11 @@ function partnerOf(ctx: MatchContext, m: Mat3, i: number, tol: number, out?: Flo
   const x = y[3 * i];
   const yy = y[3 * i + 1];
   const z = y[3 * i + 2];
-  return nearestOfKind(
-    ctx.grid,
-    m[0] * x + m[1] * yy + m[2] * z,
-    m[3] * x + m[4] * yy + m[5] * z,
-    m[6] * x + m[7] * yy + m[8] * z,
-    ctx.kinds[i],
-    tol,
-    out,
-  );
+  query[0] = m[0] * x + m[1] * yy + m[2] * z;
+  query[1] = m[3] * x + m[4] * yy + m[5] * z;
+  query[2] = m[6] * x + m[7] * yy + m[8] * z;
+  query[3] = tol;
+  return nearestOfKind(ctx.grid, query, ctx.kinds[i], out);
 }
 
 /**

@@ -58,7 +58,7 @@ describe.each([
           : [0, 1, 2].map(() => (random() - 0.5) * (n < 100 ? 6 : 14));
       const kind = Math.floor(random() * 4); // kind 3 does not occur: never found
       const expected = bruteNearest(coords, kinds, p, kind, radius);
-      const got = nearestOfKind(grid, p[0], p[1], p[2], kind, radius, out);
+      const got = nearestOfKind(grid, Float64Array.of(p[0], p[1], p[2], radius), kind, out);
       expect(got).toBe(expected);
       if (got >= 0) {
         hits++;
@@ -78,7 +78,7 @@ describe.each([
     kinds[a] = 0;
     kinds[b] = 0;
     const grid = buildNeighbourGrid(coords, kinds, 0.6);
-    expect(nearestOfKind(grid, 30, 30, 30, 0, 0.3)).toBe(Math.min(a, b));
+    expect(nearestOfKind(grid, Float64Array.of(30, 30, 30, 0.3), 0)).toBe(Math.min(a, b));
   });
 });
 
