@@ -93,15 +93,21 @@ export function describe(
   const axes: StructureResult['elements']['axes'] = [];
   const planes: StructureResult['elements']['planes'] = [];
   const axisIndex = new Map<string, number>();
-  const keyOf = (v: Vec3) => v.map((c) => Math.round(c * 1e6)).join(',');
-  const rotations = labels.filter((l) => l.kind === 'rotation');
-  const maxOrder = Math.max(0, ...rotations.map((l) => l.order));
-  const maxAxes = new Set(rotations.filter((l) => l.order === maxOrder).map((l) => keyOf(l.axis)));
+  const keyOf = (v: Vec3) => `${Math.round(v[0] * 1e6)},${Math.round(v[1] * 1e6)},${Math.round(v[2] * 1e6)}`;
+  // Each label's axis key once (the loops below ask for most of them twice or three times).
+  const keys = labels.map((l) => (l.kind === 'rotation' || l.kind === 'improper' ? keyOf(l.axis) : ''));
+  let maxOrder = 0;
+  for (const l of labels) if (l.kind === 'rotation' && l.order > maxOrder) maxOrder = l.order;
+  const maxAxes = new Set<string>();
+  labels.forEach((l, k) => {
+    if (l.kind === 'rotation' && l.order === maxOrder) maxAxes.add(keys[k]);
+  });
   const zKey = keyOf([0, 0, 1]);
   const principalKey = linear || (maxAxes.size > 1 && maxAxes.has(zKey) && maxOrder === 2) ? zKey : maxAxes.size === 1 ? [...maxAxes][0] : null;
-  for (const l of labels) {
+  for (let k = 0; k < labels.length; k++) {
+    const l = labels[k];
     if (l.kind === 'rotation') {
-      const key = keyOf(l.axis);
+      const key = keys[k];
       let idx = axisIndex.get(key);
       if (idx === undefined) {
         idx = axes.length;
@@ -112,9 +118,10 @@ export function describe(
       axes[idx].order = Math.max(axes[idx].order, l.order);
     }
   }
-  for (const l of labels) {
+  for (let k = 0; k < labels.length; k++) {
+    const l = labels[k];
     if (l.kind === 'improper') {
-      const idx = axisIndex.get(keyOf(l.axis));
+      const idx = axisIndex.get(keys[k]);
       if (idx !== undefined) axes[idx].improperOrder = Math.max(axes[idx].improperOrder ?? 0, l.order);
     } else if (l.kind === 'reflection') {
       planes.push({ normal: cleanZeros(canonicalDirection(apply3(toOut, l.axis))) as [number, number, number], kind: l.planeKind ?? 'σ' });
