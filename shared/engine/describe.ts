@@ -2,7 +2,7 @@ import type { OperationJson, StructureResult } from '../contracts/structure';
 import type { Analysis } from './analysis';
 import { elementResiduals, type FrameFit } from './fit-frame';
 import { labelElements, type ElementLabel } from './labels';
-import { apply3, canonicalDirection, identity3, inversion3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { apply3, canonicalDirection, identity3, inversion3, mul33, transpose3, type Mat3, type Vec3 } from './mat3';
 import { standardOrientation } from './orient';
 import { i32 } from './arena';
 
@@ -67,8 +67,8 @@ export function describe(
   const unsorted: OperationJson[] = fit.ideal.elements.map((e, k) => {
     // E and i are ±I in every frame: written exactly, not as Q·I·Qᵀ with rounding.
     const exact = e.kind === 'identity' ? identity3() : e.kind === 'inversion' ? inversion3() : null;
-    const std = exact ?? mul3(mul3(S, e.matrix), St);
-    const m = exact ?? (identityOut ? std : mul3(mul3(toOut, std), outT));
+    const std = exact ?? mul33(S, e.matrix, St);
+    const m = exact ?? (identityOut ? std : mul33(toOut, std, outT));
     const perm = fit.perms[k];
     const permutation = plainCopy(perm);
     const l = labels[k];

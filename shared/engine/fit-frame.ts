@@ -2,7 +2,7 @@ import type { Analysis, FoundGroup } from './analysis';
 import { EngineError } from './errors';
 import { idealGroup, type IdealGroup } from './groups';
 import { correlation, rotationFromCorrelation } from './kabsch';
-import { basisWithZ, dot3, identity3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { basisWithZ, dot3, identity3, mul33, transpose3, type Mat3, type Vec3 } from './mat3';
 import { productKey, type SymOp } from './op-store';
 import { residualWithPermutation, type OpKind } from './operations';
 import { projectOntoGroup } from './project';
@@ -159,7 +159,7 @@ export function fitSubgroup(y: Float64Array, parent: FrameFit, members: readonly
     return {
       key: k,
       sig: e.sig,
-      matrix: mul3(mul3(q, e.matrix), Qt),
+      matrix: mul33(q, e.matrix, Qt),
       perm: parent.perms[k],
       kind: e.kind,
       axis: [q[0] * a[0] + q[1] * a[1] + q[2] * a[2], q[3] * a[0] + q[4] * a[1] + q[5] * a[2], q[6] * a[0] + q[7] * a[1] + q[8] * a[2]],

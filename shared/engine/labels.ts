@@ -1,6 +1,6 @@
 import type { OperationJson } from '../contracts/structure';
 import { groupFamily, type IdealGroup } from './groups';
-import { axisAngle3, canonicalDirection, dot3, mul3, transpose3, type Mat3, type Vec3 } from './mat3';
+import { axisAngle3, canonicalDirection, dot3, mul33, transpose3, type Mat3, type Vec3 } from './mat3';
 import { gcd } from './operations';
 
 /** Label and geometry of one element in the standard frame. */
@@ -52,7 +52,7 @@ const FREE_FRAME: ReadonlySet<string> = new Set(['C1', 'Ci', 'Cs', 'Cn', 'Cnh', 
 
 function computeLabels(name: string, ideal: IdealGroup, S: Mat3): ElementLabel[] {
   const St = transpose3(S);
-  const std = ideal.elements.map((e) => mul3(mul3(S, e.matrix), St));
+  const std = ideal.elements.map((e) => mul33(S, e.matrix, St));
   const fam = groupFamily(name).family;
   const n = groupFamily(name).n;
   const classOfAxis = (want: Vec3, kind: 'rotation2' | 'reflection'): number => {

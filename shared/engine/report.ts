@@ -12,7 +12,7 @@ import { hillFormula } from './formula';
 import { groupOrder } from './groups';
 import { superpose } from './kabsch';
 import { ladderRanges, type LadderRange } from './ladder';
-import { apply3, identity3, mul3, transpose3, type Mat3 } from './mat3';
+import { apply3, identity3, mul3, mul33, transpose3, type Mat3 } from './mat3';
 import { prepareMolecule } from './molecule';
 import { symmetryRmsd } from './project';
 import { computationalSubgroup } from './subgroups';
@@ -112,9 +112,9 @@ export function snap(molecule: MoleculeInput, settings?: Partial<SnapSettings>):
 
   // Measures.
   const Qt = transpose3(fit.Q);
-  const inputMats = fit.ideal.elements.map((e) => mul3(mul3(fit.Q, e.matrix), Qt));
+  const inputMats = fit.ideal.elements.map((e) => mul33(fit.Q, e.matrix, Qt));
   const outT = transpose3(frameRot);
-  const outMats = fit.ideal.elements.map((e) => mul3(mul3(frameRot, e.matrix), outT));
+  const outMats = fit.ideal.elements.map((e) => mul33(frameRot, e.matrix, outT));
   const symmetryRmsdBefore = symmetryRmsd(mol.y, inputMats, fit.perms);
   if (!standard) for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) centredOut[3 * i + d] = out[3 * i + d] - mol.centre[d];
   const symmetryRmsdAfter = symmetryRmsd(standard ? out : centredOut, outMats, fit.perms);

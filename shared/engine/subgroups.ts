@@ -1,6 +1,6 @@
 import { compareMemberLists, idealGroup, subgroupsOf, type IdealGroup } from './groups';
 import { identifyGroup } from './identify';
-import { mul3, transpose3, type Mat3 } from './mat3';
+import { mul33, transpose3, type Mat3 } from './mat3';
 import { labelElements } from './labels';
 
 /** Names of D2h and its subgroups: the groups quantum-chemistry codes compute in. */
@@ -18,7 +18,7 @@ function alignedElements(ideal: IdealGroup, S: Mat3): string {
       out += '1';
       continue;
     }
-    const m = mul3(mul3(S, e.matrix), St);
+    const m = mul33(S, e.matrix, St);
     // An involution along a coordinate axis is diagonal (entries ±1).
     const diagonal =
       Math.abs(m[1]) < 1e-9 && Math.abs(m[2]) < 1e-9 && Math.abs(m[3]) < 1e-9 && Math.abs(m[5]) < 1e-9 && Math.abs(m[6]) < 1e-9 && Math.abs(m[7]) < 1e-9;

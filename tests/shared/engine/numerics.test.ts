@@ -6,7 +6,7 @@ import fc from 'fast-check';
 import { determinant, EigenvalueDecomposition, Matrix, SingularValueDecomposition } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { correlation, orthogonalFromCorrelation, rotationFromCorrelation } from '@shared/engine/kabsch';
-import { axisAngle3, det3, frobeniusDistance3, improper3, mul3, reflection3, rotation3, transpose3 } from '@shared/engine/mat3';
+import { axisAngle3, det3, frobeniusDistance3, improper3, mul3, mul33, reflection3, rotation3, transpose3 } from '@shared/engine/mat3';
 import { regularize } from '@shared/engine/operations';
 import { projectOntoGroup } from '@shared/engine/project';
 import { idealGroup } from '@shared/engine/groups';
@@ -202,5 +202,21 @@ describe('group average (methods.md (a))', () => {
       }
     });
     expect(transpose3(mats[0])).toEqual(mats[0]);
+  });
+});
+
+describe('mul33, the triple product of 3×3 matrices', () => {
+  const mat = fc.array(fc.double({ min: -10, max: 10, noNaN: true }), { minLength: 9, maxLength: 9 });
+  it('is bit for bit mul3(mul3(a, b), c), and (a·b)·c by ml-matrix to rounding', () => {
+    fc.assert(
+      fc.property(mat, mat, mat, (a, b, c) => {
+        expect(mul33(a, b, c)).toEqual(mul3(mul3(a, b), c));
+        const m = (v: number[]) => new Matrix([v.slice(0, 3), v.slice(3, 6), v.slice(6, 9)]);
+        const ref = m(a).mmul(m(b)).mmul(m(c)).to1DArray();
+        const got = mul33(a, b, c);
+        for (let i = 0; i < 9; i++) expect(got[i]).toBeCloseTo(ref[i], 8);
+      }),
+      { seed: 3, numRuns: 300 },
+    );
   });
 });
