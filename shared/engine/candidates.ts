@@ -44,7 +44,7 @@ export function generateCandidates(store: OpStore): void {
   if (n < 2) return;
   const probe = probeAtoms(store);
   const exact = EXACT_RESIDUAL * Math.max(1, mol.radius);
-  const tested = new Set<number>();
+  triedDirections.clear();
   const perm = i32(n);
   const images = i32(probe.length);
 
@@ -72,11 +72,10 @@ export function generateCandidates(store: OpStore): void {
   const once = (tag: number, d: Vec3): boolean => {
     // sign-canonical without allocating: flip so that the first clearly non-zero component is positive
     const s = Math.abs(d[0]) > 1e-9 ? Math.sign(d[0]) : Math.abs(d[1]) > 1e-9 ? Math.sign(d[1]) : Math.sign(d[2]) || 1;
-    const q = (v: number) => Math.round(v * s * 2000) + 2000;
-    const k = ((tag * 4001 + q(d[0])) * 4001 + q(d[1])) * 4001 + q(d[2]);
-    if (tested.has(k)) return false;
-    tested.add(k);
-    return true;
+    const q0 = Math.round(d[0] * s * 2000) + 2000;
+    const q1 = Math.round(d[1] * s * 2000) + 2000;
+    const q2 = Math.round(d[2] * s * 2000) + 2000;
+    return triedDirections.add(tag * 4001 + q0, q1 * 4001 + q2);
   };
   const testAxis = (d: Vec3 | null, orders: readonly number[]) => {
     if (!d) return;
@@ -143,6 +142,57 @@ export function generateCandidates(store: OpStore): void {
   const { moments } = inertia;
   if (moments[2] - moments[0] <= 0.2 * moments[2]) augmentCubic(store, testAxis);
 }
+
+/**
+ * The (operation type, direction) pairs tried in the current structure, as pairs of 32-bit
+ * integers (tag·4001 + q₀, q₁·4001 + q₂) in an open-addressing table on typed arrays. A Set of
+ * the combined number was slower: the combined key exceeds the small-integer range, so every
+ * key was a heap number (about a tenth of candidate generation went there).
+ */
+export class PairSet {
+  private hi = new Int32Array(256);
+  private lo = new Int32Array(256);
+  /** A slot is used when its stamp equals `generation`; clear() starts a new generation. */
+  private stamp = new Int32Array(256);
+  private generation = 1;
+  private size = 0;
+
+  clear(): void {
+    this.size = 0;
+    if (++this.generation >= 1 << 30) {
+      this.stamp.fill(0);
+      this.generation = 1;
+    }
+  }
+
+  /** Adds (a, b); false when it was there already. */
+  add(a: number, b: number): boolean {
+    const mask = this.stamp.length - 1;
+    let h = (Math.imul(a, 0x9e3779b1) ^ Math.imul(b, 0x85ebca6b)) & mask;
+    while (this.stamp[h] === this.generation) {
+      if (this.hi[h] === a && this.lo[h] === b) return false;
+      h = (h + 1) & mask;
+    }
+    this.stamp[h] = this.generation;
+    this.hi[h] = a;
+    this.lo[h] = b;
+    if (++this.size * 2 > this.stamp.length) this.grow();
+    return true;
+  }
+
+  private grow(): void {
+    const { hi, lo, stamp, generation } = this;
+    this.hi = new Int32Array(2 * hi.length);
+    this.lo = new Int32Array(2 * hi.length);
+    this.stamp = new Int32Array(2 * hi.length);
+    this.generation = 1;
+    this.size = 0;
+    for (let i = 0; i < stamp.length; i++) if (stamp[i] === generation) this.add(hi[i], lo[i]);
+  }
+}
+
+/** The directions tried by {@link generateCandidates} (synchronous: one table serves every structure). */
+const triedDirections = new PairSet();
 
 /** Residual (Å per Å of radius) below which a candidate is taken as exact and not re-fitted. */
 const EXACT_RESIDUAL = 1e-9;

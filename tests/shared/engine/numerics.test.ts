@@ -7,6 +7,7 @@ import { determinant, EigenvalueDecomposition, Matrix, SingularValueDecompositio
 import { describe, expect, it } from 'vitest';
 import { correlation, orthogonalFromCorrelation, rotationFromCorrelation } from '@shared/engine/kabsch';
 import { axisAngle3, det3, frobeniusDistance3, improper3, mul3, mul33, reflection3, rotation3, transpose3 } from '@shared/engine/mat3';
+import { PairSet } from '@shared/engine/candidates';
 import { regularize } from '@shared/engine/operations';
 import { projectOntoGroup } from '@shared/engine/project';
 import { idealGroup } from '@shared/engine/groups';
@@ -217,6 +218,29 @@ describe('mul33, the triple product of 3×3 matrices', () => {
         for (let i = 0; i < 9; i++) expect(got[i]).toBeCloseTo(ref[i], 8);
       }),
       { seed: 3, numRuns: 300 },
+    );
+  });
+});
+
+describe('PairSet, the table of tried directions', () => {
+  // Reference: a JavaScript Set of the pairs' text (common practice; the table must answer alike).
+  it('says whether a pair is new, like a Set, across growth and clearing', () => {
+    // Small values repeat often; large ones are the real range (tag·4001 + q₀ ≤ 532,131, q₁·4001 + q₂ ≤ 16,008,000).
+    const part = (max: number) => fc.oneof(fc.integer({ min: 0, max: 12 }), fc.integer({ min: 0, max }));
+    fc.assert(
+      fc.property(fc.array(fc.array(fc.tuple(part(600_000), part(17_000_000)), { maxLength: 400 }), { maxLength: 4 }), (rounds) => {
+        const table = new PairSet();
+        for (const pairs of rounds) {
+          table.clear();
+          const seen = new Set<string>();
+          for (const [a, b] of pairs) {
+            const isNew = !seen.has(`${a},${b}`);
+            seen.add(`${a},${b}`);
+            expect(table.add(a, b)).toBe(isNew);
+          }
+        }
+      }),
+      { seed: 11, numRuns: 150 },
     );
   });
 });
