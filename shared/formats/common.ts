@@ -194,31 +194,51 @@ export class LineReader {
       this.source = asSource(content);
       this.at = textStart(this.source);
       this.decoder = new TextDecoder('utf-8', { ignoreBOM: true });
-      this.more();
+      this.text = this.decodeNext() ?? '';
     }
   }
 
-  /** Decodes the next window of the bytes onto the text; false when all are decoded. */
-  private more(): boolean {
+  /** The text of the next window of the bytes, or null when all are decoded. */
+  private decodeNext(): string | null {
     const source = this.source;
-    if (source === null || this.at >= source.size) return false;
+    if (source === null || this.at >= source.size) return null;
     const piece = source.read(this.at, Math.min(this.windowBytes, source.size - this.at));
-    if (piece.length === 0) return false; // the file became shorter
+    if (piece.length === 0) return null; // the file became shorter
     this.at += piece.length;
-    const next = this.decoder!.decode(piece, { stream: this.at < source.size });
-    if (!this.hasCr && next.includes('\r')) this.hasCr = true;
-    // Keep the previous line (back() returns to it); what lies before it is never read again.
-    const keep = this.prevPos;
-    this.text = this.text.slice(keep) + next;
-    this.pos -= keep;
+    const text = this.decoder!.decode(piece, { stream: this.at < source.size });
+    if (!this.hasCr && text.includes('\r')) this.hasCr = true;
+    return text;
+  }
+
+  /**
+   * Decodes windows onto the text until one has a line feed (all of them with `toEnd`). The text
+   * keeps the previous line (back() returns to it); what lies before it is never read again. The
+   * windows are joined once, so that a line longer than many windows costs no more than its
+   * length. Returns the position of the first new line feed, or −1.
+   */
+  private more(toEnd = false): number {
+    const parts = [this.text.slice(this.prevPos)];
+    let length = parts[0].length;
+    let found = -1;
+    for (let next = this.decodeNext(); next !== null; next = found === -1 || toEnd ? this.decodeNext() : null) {
+      parts.push(next);
+      if (found === -1) {
+        const lf = next.indexOf('\n');
+        if (lf !== -1) found = length + lf;
+      }
+      length += next.length;
+    }
+    if (parts.length === 1) return -1;
+    this.text = parts.join('');
+    this.pos -= this.prevPos;
     this.prevPos = 0;
-    return true;
+    return found;
   }
 
   /** The next line without its line end, or null at the end of the text. */
   next(): string | null {
     let end = this.text.indexOf('\n', this.pos);
-    while (end === -1 && this.more()) end = this.text.indexOf('\n', this.pos);
+    if (end === -1 && this.source !== null) end = this.more();
     const { text } = this;
     if (this.pos >= text.length) return null;
     let nextPos: number;
@@ -267,7 +287,7 @@ export class LineReader {
 
   /** True when every remaining line is blank. */
   restIsBlank(): boolean {
-    while (this.more());
+    if (this.source !== null) this.more(true);
     NON_SPACE.lastIndex = this.pos;
     return !NON_SPACE.test(this.text);
   }
