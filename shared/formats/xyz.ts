@@ -38,7 +38,10 @@ import type { ReadResult } from './types';
  * XYZ whenever its comment line has a `Properties=` or `Lattice=` key.
  */
 
-const KEY_VALUE = /([A-Za-z_][\w\-]*)\s*=\s*("(?:[^"\\]|\\.)*"|'[^']*'|\{[^}]*\}|[^\s"']+)/g;
+// The look-behind starts a key only where no letter or _ precedes: inside a word no key can
+// match where the attempt at the word's first letter failed, and without it a long word with no
+// '=' cost time quadratic in its length (a 400,000-character comment line took minutes).
+export const KEY_VALUE = /(?<![A-Za-z_])([A-Za-z_][\w\-]*)\s*=\s*("(?:[^"\\]|\\.)*"|'[^']*'|\{[^}]*\}|[^\s"']+)/g;
 
 interface CommentInfo {
   name: string | null;

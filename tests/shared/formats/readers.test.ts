@@ -49,6 +49,16 @@ describe('XYZ', () => {
     expect(methane.ok && [methane.molecule.charge, methane.molecule.multiplicity]).toEqual([0, 1]);
   });
 
+  it('reads a comment line of 300,000 characters like a short one (no key=value scan that grows with its square)', () => {
+    // Constructed test input: a long run of word characters with no '=', then one key.
+    const long = `${'x'.repeat(300_000)} charge=1 multiplicity=2 tail`;
+    const [r] = readStructures('long.xyz', new TextEncoder().encode(`1\n${long}\nHe 0 0 0\n`));
+    expect(r.ok && [r.molecule.charge, r.molecule.multiplicity, r.molecule.name?.length]).toEqual([1, 2, 200]);
+    // The same keys as in a short comment, wherever they stand: after digits, '-' or quotes too.
+    const [s] = readStructures('keys.xyz', `1\n9charge=-1 -mult=3 'q'name\nHe 0 0 0\n`);
+    expect(s.ok && [s.molecule.charge, s.molecule.multiplicity]).toEqual([-1, 3]);
+  });
+
   it('reads coordinates exactly as written, in Å and file order', () => {
     const [water] = molecules(readStructures('ligands.xyz', sample('ligands.xyz')));
     expect(water.atoms[1]).toEqual({ element: 'H', x: -0.00085513, y: 0.75702209, z: -0.4688509 });

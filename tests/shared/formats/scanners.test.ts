@@ -10,7 +10,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { normalizeElement } from '@shared/elements';
 import { parseNumber, splitFields } from '@shared/formats/common';
-import { readXyz } from '@shared/formats/xyz';
+import { KEY_VALUE, readXyz } from '@shared/formats/xyz';
 
 const reference = (line: string) => line.trim().split(/\s+/);
 
@@ -119,6 +119,24 @@ describe('XYZ atom lines', () => {
         expect(same(readLine(line), referenceAtom(line))).toBe(true);
       }),
       { seed: 2026, numRuns: 3000 },
+    );
+  });
+});
+
+describe('the key=value pattern of XYZ comment lines', () => {
+  // Reference: the same pattern without the look-behind (what the reader used before it was
+  // made linear in the line's length); on any text both must find the same keys, values and places.
+  const plain = /([A-Za-z_][\w\-]*)\s*=\s*("(?:[^"\\]|\\.)*"|'[^']*'|\{[^}]*\}|[^\s"']+)/g;
+  const found = (re: RegExp, s: string) => [...s.matchAll(re)].map((m) => [m.index, m[0], m[1], m[2]]);
+
+  it('finds what the plain pattern finds', () => {
+    const piece = fc.constantFrom('a', 'b', '_', '1', '-', '=', '"', "'", ' ', '{', '}', '\\', 'x=', 'charge', '=1', ' q="v w"', 'mult=2');
+    fc.assert(
+      fc.property(fc.array(piece, { maxLength: 16 }), (parts) => {
+        const s = parts.join('');
+        expect(found(KEY_VALUE, s)).toEqual(found(plain, s));
+      }),
+      { seed: 5, numRuns: 3000 },
     );
   });
 });
