@@ -1,6 +1,6 @@
 import { writeSync } from 'node:fs';
 
-/** Helpers for what the CLI prints: aligned tables, numbers, formulas, buffered stdout. */
+/** Helpers for what the CLI prints: aligned tables, numbers, buffered stdout. */
 
 /** A column of {@link renderTable}: header, and whether to right-align (numbers). */
 export interface Column {
@@ -35,18 +35,6 @@ export function formatCsm(v: number): string {
 /** Group order for a table: `∞` for the linear groups (order 0 in the JSON). */
 export function formatOrder(order: number): string {
   return order === 0 ? '∞' : String(order);
-}
-
-/**
- * Molecular formula in Hill order (Hill, J. Am. Chem. Soc. 22, 478 (1900)): with carbon, C then
- * H then the rest alphabetically; without carbon, all alphabetically. Counts of 1 omitted.
- */
-export function hillFormula(elements: readonly string[]): string {
-  const counts = new Map<string, number>();
-  for (const e of elements) counts.set(e, (counts.get(e) ?? 0) + 1);
-  const keys = [...counts.keys()].sort();
-  const order = counts.has('C') ? ['C', ...(counts.has('H') ? ['H'] : []), ...keys.filter((k) => k !== 'C' && k !== 'H')] : keys;
-  return order.map((k) => `${k}${counts.get(k) === 1 ? '' : counts.get(k)}`).join('');
 }
 
 /**

@@ -1,8 +1,9 @@
 import { ladder, perceive } from '@shared/engine';
+import { hillFormula } from '@shared/engine/formula';
 import { eachStructure, type LoadedStructure } from './each-structure';
 import { streamInputs } from './load-inputs';
 import { EXIT_OK, UsageError, integerOption, lengthOption, parseCommandArgs } from './options';
-import { BufferedOut, formatLength, formatOrder, hillFormula, renderTable } from './output';
+import { BufferedOut, formatLength, formatOrder, renderTable } from './output';
 
 export const PERCEIVE_HELP = `Usage: pointfold perceive FILE... [options]
 
