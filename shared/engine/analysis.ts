@@ -4,7 +4,7 @@ import { bestLine } from './inertia';
 import type { Vec3 } from './mat3';
 import type { PreparedMolecule } from './molecule';
 import { matchOperation } from './operations';
-import { DENSE_KEYS, closeUnder, createOpStore, type OpStore, type SymOp } from './op-store';
+import { DENSE_KEYS, closeUnder, createOpStore, nextStamp, type OpStore, type SymOp } from './op-store';
 import { i32 } from './arena';
 
 /** Tolerance (Å) at which candidate operations are searched: the top of the ladder. */
@@ -206,10 +206,7 @@ let lastToken = 0;
 function contains(store: OpStore, group: ClosureOutcome, key: number): boolean {
   if (store.denseId === 0) return (group.keys ??= new Set(group.elements!.map((e) => e.key))).has(key);
   if (group.mark !== lastToken || lastToken === 0) {
-    if (++lastToken >= 1 << 30) {
-      memberMark.fill(0);
-      lastToken = 1;
-    }
+    lastToken = nextStamp(memberMark, lastToken);
     group.mark = lastToken;
     for (const e of group.elements!) memberMark[e.key] = lastToken;
   }

@@ -12,7 +12,7 @@ import {
   type Vec3,
 } from './mat3';
 import { gcd, matchOperation, probeOperation } from './operations';
-import { addOperation, closeUnder, exactOperation, findOp, refineOperation, type OpStore, type SymOp } from './op-store';
+import { addOperation, closeUnder, exactOperation, findOp, nextStamp, refineOperation, type OpStore, type SymOp } from './op-store';
 import { f64, i32, copyI32 } from './arena';
 
 /**
@@ -159,10 +159,7 @@ export class PairSet {
 
   clear(): void {
     this.size = 0;
-    if (++this.generation >= 1 << 30) {
-      this.stamp.fill(0);
-      this.generation = 1;
-    }
+    this.generation = nextStamp(this.stamp, this.generation);
   }
 
   /** Adds (a, b); false when it was there already. */

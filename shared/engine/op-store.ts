@@ -64,7 +64,17 @@ const denseOwner = new Int32Array(DENSE_KEYS);
 const walkStamp = new Int32Array(DENSE_KEYS);
 let lastStoreId = 0;
 let lastGeneration = 0;
-const WRAP = 1 << 30;
+
+/**
+ * The stamp after `last` for an array of stamps (a slot counts as set when it holds the current
+ * stamp, so a new stamp clears every slot at once): past 2³⁰ the array is zeroed and counting
+ * starts again at 1.
+ */
+export function nextStamp(stamps: Int32Array, last: number): number {
+  if (last + 1 < 1 << 30) return last + 1;
+  stamps.fill(0);
+  return 1;
+}
 
 /**
  * Keys written to the shared tables by the current store. The next store clears them: the
@@ -81,19 +91,11 @@ function nextStoreId(): number {
     denseOwner[key] = 0;
   }
   denseKeys = [];
-  if (++lastStoreId >= WRAP) {
-    denseOwner.fill(0);
-    lastStoreId = 1;
-  }
-  return lastStoreId;
+  return (lastStoreId = nextStamp(denseOwner, lastStoreId));
 }
 
 function nextGeneration(): number {
-  if (++lastGeneration >= WRAP) {
-    walkStamp.fill(0);
-    lastGeneration = 1;
-  }
-  return lastGeneration;
+  return (lastGeneration = nextStamp(walkStamp, lastGeneration));
 }
 
 /** Creates the store with the identity and the anchors (farthest atom; farthest from its line). */
